@@ -1,0 +1,140 @@
+import { spawn } from "node:child_process";
+import { chownSync, existsSync, readdirSync, statSync } from "node:fs";
+import { join } from "node:path";
+
+/**
+ * Runs a hardware tool on untrusted input, as EDA.md prescribes: an unprivileged user, no network,
+ * its own mount namespace with only the build folder writable (bubblewrap), prlimit on CPU time,
+ * address space, file size and process count, and a wall-clock kill of the whole process group.
+ */
+export interface SandboxLimits {
+  cpuSeconds: number;
+  memoryBytes: number;
+  fileSizeBytes: number;
+  processes: number;
+  wallSeconds: number;
+}
+
+export const DEFAULT_LIMITS: SandboxLimits = {
+  cpuSeconds: 120,
+  memoryBytes: 4_000_000_000,
+  fileSizeBytes: 500_000_000,
+  processes: 256,
+  wallSeconds: 180,
+};
+
+export interface SandboxRequest {
+  /** Program and arguments as seen inside the sandbox (the build folder is mounted at /build). */
+  command: string;
+  args: string[];
+  /** Host folder mounted read-write at /build; made writable by the sandbox user. */
+  buildDir: string;
+  limits?: Partial<SandboxLimits>;
+  /** Cap on captured stdout/stderr, each; the rest is dropped and `truncated` set. */
+  maxOutputBytes?: number;
+}
+
+export interface SandboxResult {
+  exitCode: number | null;
+  signal: NodeJS.Signals | null;
+  timedOut: boolean;
+  stdout: string;
+  stderr: string;
+  truncated: boolean;
+  durationMs: number;
+}
+
+const NOBODY = 65534;
+
+function chownTree(dir: string, uid: number): void {
+  chownSync(dir, uid, uid);
+  for (const name of readdirSync(dir)) {
+    const p = join(dir, name);
+    const st = statSync(p, { throwIfNoEntry: false });
+    if (!st) continue;
+    if (st.isDirectory()) chownTree(p, uid);
+    else chownSync(p, uid, uid);
+  }
+}
+
+export function sandboxArgv(req: SandboxRequest): string[] {
+  const l = { ...DEFAULT_LIMITS, ...req.limits };
+  const isRoot = process.getuid?.() === 0;
+  const bind = ["/usr", "/lib", "/lib64", "/bin"].filter((p) => existsSync(p)).flatMap((p) => ["--ro-bind", p, p]);
+  const bwrap = [
+    "bwrap",
+    ...bind,
+    "--proc", "/proc",
+    "--dev", "/dev",
+    "--tmpfs", "/tmp",
+    "--bind", req.buildDir, "/build",
+    "--unshare-all",
+    "--die-with-parent",
+    "--new-session",
+    "--clearenv",
+    "--setenv", "PATH", "/usr/bin:/bin",
+    "--setenv", "HOME", "/build",
+    "--setenv", "LANG", "C.UTF-8",
+    "--chdir", "/build",
+    req.command,
+    ...req.args,
+  ];
+  const prlimit = [
+    "prlimit",
+    `--as=${l.memoryBytes}`,
+    `--cpu=${l.cpuSeconds}`,
+    `--fsize=${l.fileSizeBytes}`,
+    `--nproc=${l.processes}`,
+    "--",
+  ];
+  const drop = isRoot ? ["setpriv", `--reuid=${NOBODY}`, `--regid=${NOBODY}`, "--clear-groups", "--no-new-privs"] : [];
+  return [...prlimit, ...drop, ...bwrap];
+}
+
+export function runSandboxed(req: SandboxRequest): Promise<SandboxResult> {
+  const l = { ...DEFAULT_LIMITS, ...req.limits };
+  const maxOut = req.maxOutputBytes ?? 4 * 1024 * 1024;
+  if (process.getuid?.() === 0) chownTree(req.buildDir, NOBODY);
+  const [bin, ...args] = sandboxArgv(req);
+  const started = Date.now();
+  return new Promise((resolve, reject) => {
+    const child = spawn(bin, args, { stdio: ["ignore", "pipe", "pipe"], detached: true, env: { PATH: "/usr/bin:/bin" } });
+    const out: Buffer[] = [];
+    const err: Buffer[] = [];
+    let outLen = 0;
+    let errLen = 0;
+    let truncated = false;
+    let timedOut = false;
+    child.stdout.on("data", (b: Buffer) => {
+      if (outLen < maxOut) out.push(b.subarray(0, maxOut - outLen));
+      else truncated = true;
+      outLen += b.length;
+    });
+    child.stderr.on("data", (b: Buffer) => {
+      if (errLen < maxOut) err.push(b.subarray(0, maxOut - errLen));
+      else truncated = true;
+      errLen += b.length;
+    });
+    const timer = setTimeout(() => {
+      timedOut = true;
+      // The sandbox runs in its own process group (detached): kill all of it.
+      if (child.pid) process.kill(-child.pid, "SIGKILL");
+    }, l.wallSeconds * 1000);
+    child.on("error", (e) => {
+      clearTimeout(timer);
+      reject(new Error(`sandbox could not start ${bin}: ${e.message}`));
+    });
+    child.on("close", (exitCode, signal) => {
+      clearTimeout(timer);
+      resolve({
+        exitCode,
+        signal,
+        timedOut,
+        stdout: Buffer.concat(out).toString("utf8"),
+        stderr: Buffer.concat(err).toString("utf8"),
+        truncated,
+        durationMs: Date.now() - started,
+      });
+    });
+  });
+}
