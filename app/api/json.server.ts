@@ -1,0 +1,65 @@
+import type { z } from "zod";
+import { getSession, type SessionUser } from "~/auth/guards.server";
+
+/**
+ * The JSON API convention for every /api/* resource route: session-cookie auth through the same helpers as
+ * pages, zod-validated bodies, and one error shape:
+ *   { error: { status, code, message, fieldErrors? } }
+ * Helpers throw a Response, which React Router returns as is from a resource route.
+ */
+export interface ApiErrorBody {
+  error: { status: number; code: string; message: string; fieldErrors?: Record<string, string[]> };
+}
+
+export function apiError(status: number, code: string, message: string, fieldErrors?: Record<string, string[]>): Response {
+  const body: ApiErrorBody = { error: { status, code, message, ...(fieldErrors ? { fieldErrors } : {}) } };
+  return Response.json(body, { status, headers: { "Cache-Control": "no-store" } });
+}
+
+export function apiJson(body: unknown, init: ResponseInit = {}): Response {
+  const headers = new Headers(init.headers);
+  headers.set("Cache-Control", "no-store");
+  return Response.json(body, { ...init, headers });
+}
+
+export async function requireApiUser(request: Request): Promise<SessionUser> {
+  const s = await getSession(request);
+  if (!s) throw apiError(401, "unauthenticated", "Sign in first.");
+  return s.user;
+}
+
+export function apiForbidden(message = "You may not do that."): never {
+  throw apiError(403, "forbidden", message);
+}
+
+export function apiNotFound(what = "That"): never {
+  throw apiError(404, "not_found", `${what} was not found.`);
+}
+
+/** Parses and validates a JSON body; a wrong body is a 400 with field errors, never a 500. */
+export async function parseJsonBody<S extends z.ZodType>(request: Request, schema: S, maxBytes = 256 * 1024): Promise<z.infer<S>> {
+  const type = request.headers.get("content-type") ?? "";
+  if (!type.includes("application/json")) throw apiError(415, "unsupported_media_type", "Send the body as application/json.");
+  const text = await request.text();
+  if (text.length > maxBytes) throw apiError(413, "body_too_large", `The body is larger than ${maxBytes} bytes.`);
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch {
+    throw apiError(400, "invalid_json", "The body is not valid JSON.");
+  }
+  const parsed = schema.safeParse(raw);
+  if (!parsed.success) {
+    const fieldErrors: Record<string, string[]> = {};
+    for (const issue of parsed.error.issues) {
+      const key = issue.path.join(".") || "_";
+      (fieldErrors[key] ??= []).push(issue.message);
+    }
+    throw apiError(400, "invalid_body", "Some fields are not valid.", fieldErrors);
+  }
+  return parsed.data;
+}
+
+export function requireMethod(request: Request, methods: string[]): void {
+  if (!methods.includes(request.method)) throw apiError(405, "method_not_allowed", `Use ${methods.join(" or ")}.`);
+}

@@ -1,0 +1,37 @@
+import { Link } from "react-router";
+import { StateBadge } from "./StateBadge";
+
+export interface CompetitionListItem {
+  id: string;
+  slug: string;
+  title: string;
+  state: string;
+  deadlineAt: string | null;
+  eventSlug: string;
+  eventTitle: string;
+  timeZone: string;
+}
+
+export function formatInZone(iso: string, timeZone: string): string {
+  return new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone, timeZoneName: "short" }).format(new Date(iso));
+}
+
+export function CompetitionList({ items, linkTo }: { items: CompetitionListItem[]; linkTo: (c: CompetitionListItem) => string }) {
+  if (items.length === 0) return <p className="text-mute">Nothing here yet.</p>;
+  return (
+    <ul className="grid gap-3 sm:grid-cols-2">
+      {items.map((c) => (
+        <li key={c.id}>
+          <Link to={linkTo(c)} className="card block hover:border-ink-soft">
+            <div className="flex items-center justify-between gap-2">
+              <span className="text-xs font-medium text-mute">{c.eventTitle}</span>
+              <StateBadge state={c.state} />
+            </div>
+            <div className="mt-1 text-lg font-bold">{c.title}</div>
+            {c.deadlineAt && <div className="mt-1 text-sm text-ink-soft">Deadline {formatInZone(c.deadlineAt, c.timeZone)}</div>}
+          </Link>
+        </li>
+      ))}
+    </ul>
+  );
+}

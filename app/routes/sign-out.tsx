@@ -1,0 +1,12 @@
+import { redirect } from "react-router";
+import { callAuth, cookieHeaders } from "~/auth/forward.server";
+import type { Route } from "./+types/sign-out";
+
+export async function loader() {
+  return redirect("/");
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const res = await callAuth(request, "/sign-out", {});
+  return redirect("/", { headers: cookieHeaders(res) });
+}

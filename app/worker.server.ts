@@ -1,0 +1,27 @@
+import { closeDb } from "~/db/client.server";
+import { env } from "~/env.server";
+import { queue, QUEUES, stopQueue } from "~/jobs/queue.server";
+import { registerJobs } from "~/jobs/handlers.server";
+
+/**
+ * The worker process: drains the queues on the same PostgreSQL. Run more of them on more machines to drain
+ * the check queue in parallel; pg-boss hands each job to one worker at a time.
+ */
+async function main() {
+  env(); // fail fast on a bad environment
+  const boss = await queue({ supervise: true });
+  await registerJobs(boss);
+  await boss.schedule(QUEUES.mailSweep, "* * * * *");
+  await boss.schedule(QUEUES.deadlineSweep, "* * * * *");
+  console.log("[worker] ready: queues", Object.values(QUEUES).join(", "));
+  const stop = async (signal: string) => {
+    console.log(`[worker] ${signal}: finishing current jobs`);
+    await stopQueue();
+    await closeDb();
+    process.exit(0);
+  };
+  process.on("SIGTERM", () => void stop("SIGTERM"));
+  process.on("SIGINT", () => void stop("SIGINT"));
+}
+
+await main();

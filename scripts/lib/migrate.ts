@@ -1,0 +1,16 @@
+import { drizzle } from "drizzle-orm/postgres-js";
+import { migrate } from "drizzle-orm/postgres-js/migrator";
+import postgres from "postgres";
+import { fileURLToPath } from "node:url";
+
+const MIGRATIONS = fileURLToPath(new URL("../../drizzle", import.meta.url));
+
+/** Applies the committed migrations in drizzle/ (drizzle-orm's migrator; drizzle-kit is never run here). */
+export async function applyMigrations(url: string): Promise<void> {
+  const sql = postgres(url, { max: 1, onnotice: () => {} });
+  try {
+    await migrate(drizzle(sql), { migrationsFolder: MIGRATIONS });
+  } finally {
+    await sql.end({ timeout: 5 });
+  }
+}
