@@ -1,0 +1,126 @@
+/** Audio from the 1-bit pin: WAV container, level figures, dominant frequency, a waveform picture. */
+export interface AudioFigures {
+  /** RMS of the signal with its DC removed, full scale = 1 */
+  rms: number;
+  /** mean level, -1..1 (a PWM pin at 50 % duty gives about 0) */
+  dcOffset: number;
+  /** strongest frequency above 20 Hz, or null for silence or too short a clip */
+  dominantHz: number | null;
+}
+
+export class AudioError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = "AudioError";
+  }
+}
+
+/** Little-endian signed 16-bit samples from a raw buffer. */
+export function pcmFromBuffer(buf: Uint8Array): Int16Array {
+  if (buf.byteLength % 2) throw new AudioError(`16-bit PCM needs an even number of bytes, got ${buf.byteLength}`);
+  const out = new Int16Array(buf.byteLength / 2);
+  const view = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
+  for (let i = 0; i < out.length; i++) out[i] = view.getInt16(i * 2, true);
+  return out;
+}
+
+/** A canonical PCM WAVE file (RIFF, fmt chunk with format 1, data chunk), mono 16-bit. */
+export function encodeWav(samples: Int16Array, sampleRate: number): Buffer {
+  if (!Number.isInteger(sampleRate) || sampleRate <= 0) throw new AudioError(`sample rate must be a positive whole number, not ${sampleRate}`);
+  const dataBytes = samples.length * 2;
+  const buf = Buffer.alloc(44 + dataBytes);
+  buf.write("RIFF", 0, "ascii");
+  buf.writeUInt32LE(36 + dataBytes, 4);
+  buf.write("WAVE", 8, "ascii");
+  buf.write("fmt ", 12, "ascii");
+  buf.writeUInt32LE(16, 16);
+  buf.writeUInt16LE(1, 20); // PCM
+  buf.writeUInt16LE(1, 22); // mono
+  buf.writeUInt32LE(sampleRate, 24);
+  buf.writeUInt32LE(sampleRate * 2, 28);
+  buf.writeUInt16LE(2, 32);
+  buf.writeUInt16LE(16, 34);
+  buf.write("data", 36, "ascii");
+  for (let i = 0; i < samples.length; i++) buf.writeInt16LE(samples[i], 44 + i * 2);
+  return buf;
+}
+
+function fftMagnitudes(re: Float64Array): Float64Array {
+  const n = re.length;
+  const im = new Float64Array(n);
+  for (let i = 1, j = 0; i < n; i++) {
+    let bit = n >> 1;
+    for (; j & bit; bit >>= 1) j ^= bit;
+    j ^= bit;
+    if (i < j) [re[i], re[j]] = [re[j], re[i]];
+  }
+  for (let len = 2; len <= n; len <<= 1) {
+    const ang = (-2 * Math.PI) / len;
+    for (let i = 0; i < n; i += len) {
+      for (let k = 0; k < len / 2; k++) {
+        const wr = Math.cos(ang * k), wi = Math.sin(ang * k);
+        const a = i + k, b = a + len / 2;
+        const xr = re[b] * wr - im[b] * wi, xi = re[b] * wi + im[b] * wr;
+        re[b] = re[a] - xr; im[b] = im[a] - xi;
+        re[a] += xr; im[a] += xi;
+      }
+    }
+  }
+  const mag = new Float64Array(n / 2);
+  for (let i = 0; i < n / 2; i++) mag[i] = Math.hypot(re[i], im[i]);
+  return mag;
+}
+
+const MAX_ANALYSED = 1 << 16;
+
+export function audioFigures(samples: Int16Array, sampleRate: number): AudioFigures {
+  if (samples.length === 0) return { rms: 0, dcOffset: 0, dominantHz: null };
+  let sum = 0;
+  for (const s of samples) sum += s / 32768;
+  const dc = sum / samples.length;
+  let sq = 0;
+  for (const s of samples) sq += (s / 32768 - dc) ** 2;
+  const rms = Math.sqrt(sq / samples.length);
+  if (rms < 1e-4 || samples.length < 256) return { rms, dcOffset: dc, dominantHz: null };
+
+  // Hann-windowed, zero-padded 4x for a finer grid, peak refined by a parabola through three bins.
+  const used = Math.min(samples.length, MAX_ANALYSED);
+  let n = 1;
+  while (n < used * 4) n <<= 1;
+  const re = new Float64Array(n);
+  for (let i = 0; i < used; i++) re[i] = (samples[i] / 32768 - dc) * (0.5 - 0.5 * Math.cos((2 * Math.PI * i) / (used - 1)));
+  const mag = fftMagnitudes(re);
+  const minBin = Math.max(1, Math.ceil((20 * n) / sampleRate));
+  let peak = minBin;
+  for (let i = minBin; i < mag.length - 1; i++) if (mag[i] > mag[peak]) peak = i;
+  const a = mag[peak - 1], b = mag[peak], c = mag[peak + 1] ?? 0;
+  const denom = a - 2 * b + c;
+  const shift = denom !== 0 ? (0.5 * (a - c)) / denom : 0;
+  return { rms, dcOffset: dc, dominantHz: ((peak + shift) * sampleRate) / n };
+}
+
+/** Min/max envelope per column as an SVG picture; short clips show their individual samples. */
+export function waveformSvg(samples: Int16Array, sampleRate: number, width = 800, height = 160): string {
+  const mid = height / 2;
+  const y = (s: number) => (mid - (s / 32768) * (mid - 2)).toFixed(1);
+  const cols = Math.max(1, Math.min(width, samples.length));
+  const per = samples.length / cols;
+  const parts: string[] = [];
+  for (let c = 0; c < cols; c++) {
+    const from = Math.floor(c * per), to = Math.max(from + 1, Math.floor((c + 1) * per));
+    let lo = 32767, hi = -32768;
+    for (let i = from; i < to && i < samples.length; i++) {
+      if (samples[i] < lo) lo = samples[i];
+      if (samples[i] > hi) hi = samples[i];
+    }
+    const x = ((c + 0.5) * width) / cols;
+    parts.push(`M${x.toFixed(1)} ${y(hi)}V${y(lo)}`);
+  }
+  const seconds = (samples.length / sampleRate).toFixed(3);
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" role="img" aria-label="audio waveform, ${seconds} s">
+<rect width="100%" height="100%" fill="#10131a"/>
+<line x1="0" y1="${mid}" x2="${width}" y2="${mid}" stroke="#3a4150" stroke-width="1"/>
+<path d="${samples.length ? parts.join("") : ""}" stroke="#7fd1b9" stroke-width="1" fill="none"/>
+</svg>
+`;
+}

@@ -1,0 +1,157 @@
+import { readFileSync, writeFileSync } from "node:fs";
+import { join } from "node:path";
+import type { Finding } from "~/conformance/findings";
+import type { Ruleset } from "~/conformance/ruleset";
+import { videoMode } from "~/conformance/video-modes";
+import { audioFigures, encodeWav, pcmFromBuffer, waveformSvg, type AudioFigures } from "./audio";
+import { simulateDesign, type SimulationFailureReason, type SimulationFailureStage } from "./build.server";
+import type { LumaSequence } from "./compare";
+import { encodePreview } from "./encode.server";
+import { FlashAnalyzer, flashFindings, flashGrid, type FlashReport } from "./flash";
+import { RawFrameFile } from "./frame-file.server";
+import { contactSheet, encodePng, lumaGrid, spreadIndices } from "./frames";
+import { AUDIO_SAMPLE_RATE } from "./harness";
+import { measureVideo, timingFindings, type VideoTiming } from "./timing";
+
+/**
+ * The reference capture: simulate the design from reset, judge its video timing, and render what every
+ * judge sees the same way (stills, contact sheet, WAV, waveform, optional preview videos), with flash
+ * safety and simulation speed. Storing the files is the caller's job; they are left in workDir.
+ */
+export interface ReferenceCaptureRequest {
+  sourceDir: string;
+  verilogFiles: string[];
+  ruleset: Ruleset;
+  workDir: string;
+  frames?: number;
+  encode?: boolean;
+}
+
+export interface ReferenceCapture {
+  findings: Finding[];
+  video: VideoTiming | null;
+  files: {
+    firstFramePng: string | null;
+    contactSheetPng: string | null;
+    wav: string | null;
+    waveformSvg: string | null;
+    webm?: string;
+    mp4?: string;
+  };
+  audio: AudioFigures | null;
+  speed: { cycles: number; seconds: number; cpuSeconds: number; cyclesPerSecond: number; realTimeMultiple: number } | null;
+  flash: FlashReport | null;
+  /** 32×24 luma per frame, for comparing an uploaded capture (compare-video.server.ts) */
+  referenceLuma: LumaSequence | null;
+}
+
+const FAILURE_TEXT: Record<SimulationFailureStage, Record<SimulationFailureReason, string>> = {
+  compile: {
+    failed: "verilator could not build the design",
+    timeout: "the build did not finish within the compile limit and was stopped",
+    "cpu-limit": "the build used up its CPU time and was stopped",
+  },
+  run: {
+    failed: "the simulated design stopped with an error",
+    timeout: "the simulation did not finish within the run limit and was stopped",
+    "cpu-limit": "the simulation used up its CPU time and was stopped",
+  },
+};
+
+export const CONTACT_SHEET_FRAMES = 12;
+export const COMPARE_GRID = { width: 32, height: 24 };
+const FLASH_CELL = 4; // 640×480 → 160×120 cells
+
+function emptyCapture(findings: Finding[]): ReferenceCapture {
+  return {
+    findings,
+    video: null,
+    files: { firstFramePng: null, contactSheetPng: null, wav: null, waveformSvg: null },
+    audio: null,
+    speed: null,
+    flash: null,
+    referenceLuma: null,
+  };
+}
+
+export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise<ReferenceCapture> {
+  const { ruleset } = req;
+  const frames = req.frames ?? ruleset.simulation.frames;
+  const mode = videoMode(ruleset.videoMode);
+  const outcome = await simulateDesign({ ...req, frames });
+  if (!outcome.ok) {
+    const timedOut = outcome.reason !== "failed";
+    return emptyCapture([{
+      step: "simulation",
+      rule: outcome.stage === "compile" ? "simulation.compile" : "simulation.run",
+      verdict: "fail",
+      title: outcome.stage === "compile" ? "design builds with verilator" : "simulation runs",
+      measured: FAILURE_TEXT[outcome.stage][outcome.reason],
+      limit: timedOut ? `${outcome.limitSeconds} s` : null,
+      evidence: outcome.log.slice(-1500),
+      advice: timedOut ? "look for loops or constant functions that take very long to evaluate" : undefined,
+    }]);
+  }
+
+  const { summary, framesPath, pcmPath } = outcome.run;
+  const outDir = join(req.workDir, "build", "out");
+  const findings = timingFindings(summary, ruleset, frames);
+  const video = measureVideo(summary, ruleset);
+  const cyclesPerSecond = summary.seconds > 0 ? summary.cycles / summary.seconds : 0;
+  const capture: ReferenceCapture = {
+    ...emptyCapture(findings),
+    video,
+    speed: {
+      cycles: summary.cycles,
+      seconds: summary.seconds,
+      cpuSeconds: summary.cpuSeconds,
+      cyclesPerSecond,
+      realTimeMultiple: cyclesPerSecond / ruleset.clock.frequencyHz,
+    },
+  };
+
+  const pcm = pcmFromBuffer(readFileSync(pcmPath));
+  capture.audio = audioFigures(pcm, AUDIO_SAMPLE_RATE);
+  capture.files.wav = join(outDir, "audio.wav");
+  writeFileSync(capture.files.wav, encodeWav(pcm, AUDIO_SAMPLE_RATE));
+  capture.files.waveformSvg = join(outDir, "waveform.svg");
+  writeFileSync(capture.files.waveformSvg, waveformSvg(pcm, AUDIO_SAMPLE_RATE));
+
+  const file = new RawFrameFile(framesPath, mode.h.active, mode.v.active);
+  const fps = ruleset.clock.frequencyHz / (summary.vsync.periodMax || mode.h.total * mode.v.total);
+  try {
+    if (file.count > 0) {
+      capture.files.firstFramePng = join(outDir, "first-frame.png");
+      writeFileSync(capture.files.firstFramePng, encodePng(file.read(0)));
+      capture.files.contactSheetPng = join(outDir, "contact-sheet.png");
+      const picks = spreadIndices(file.count, CONTACT_SHEET_FRAMES).map((i) => file.read(i));
+      writeFileSync(capture.files.contactSheetPng, encodePng(contactSheet(picks)));
+
+      const luma: Uint8Array[] = [];
+      const analyzer = ruleset.flashCheck.enabled ? new FlashAnalyzer(mode.h.active / FLASH_CELL, mode.v.active / FLASH_CELL, fps) : null;
+      for (let i = 0; i < file.count; i++) {
+        const img = file.read(i);
+        luma.push(lumaGrid(img, COMPARE_GRID.width, COMPARE_GRID.height));
+        analyzer?.push(flashGrid(img, FLASH_CELL));
+      }
+      capture.referenceLuma = { ...COMPARE_GRID, fps, frames: luma };
+      if (analyzer) {
+        capture.flash = analyzer.report();
+        findings.push(...flashFindings(capture.flash, ruleset, "reference capture", mode.h.active, mode.v.active));
+      }
+    }
+  } finally {
+    file.close();
+  }
+
+  if (req.encode && file.count > 0) {
+    const preview = await encodePreview({
+      framesPath, wavPath: capture.files.wav, width: mode.h.active, height: mode.v.active,
+      frameRate: `${Math.round(ruleset.clock.frequencyHz)}/${summary.vsync.periodMax}`,
+      frames: file.count, durationSeconds: file.count / fps,
+    });
+    capture.files.webm = preview.webm;
+    capture.files.mp4 = preview.mp4;
+  }
+  return capture;
+}
