@@ -23,8 +23,7 @@ const scoreSchema = z
     candidate: entryId,
     criterion: z.string().min(1),
     value: z.number(),
-  })
-  .strict();
+  }); // extra fields (a timestamp, a note) are dropped, not refused
 
 const jurySchema = z
   .object({
@@ -39,7 +38,7 @@ const jurySchema = z
 const pointsSchema = z
   .object({
     method: z.literal("points"),
-    ballots: z.array(z.object({ points: z.record(z.string(), z.number()) }).strict()),
+    ballots: z.array(z.object({ points: z.record(z.string(), z.number()) })),
     candidates: z.array(entryId).optional(),
   })
   .strict();
@@ -47,7 +46,7 @@ const pointsSchema = z
 const rankedSchema = z
   .object({
     method: z.enum(["borda", "schulze"]),
-    ballots: z.array(z.object({ ranking: z.array(z.string()) }).strict()),
+    ballots: z.array(z.object({ ranking: z.array(z.string()) })),
     candidates: z.array(entryId).optional(),
   })
   .strict();
