@@ -1,0 +1,105 @@
+import { describe, expect, it } from "vitest";
+import { worstVerdict } from "~/conformance/findings";
+import { DEMO_RULESET, rulesetSchema, DEMO_PINS } from "~/conformance/ruleset";
+import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { readLayout } from "~/gdsii/reader";
+import { writeLayout } from "~/gdsii/writer";
+import { checkLayout, LayoutCheckError } from "./check-layout";
+
+const check = (opts: Parameters<typeof generateDemoLayout>[0], ruleset = DEMO_RULESET) =>
+  checkLayout(readLayout(generateDemoLayout({ seed: 5, flipFlops: 140, logicCells: 1500, ...opts, ruleset }).bytes), ruleset);
+const verdictOf = (r: ReturnType<typeof check>, rule: string) => r.findings.find((f) => f.rule === rule)?.verdict;
+
+describe("checkLayout", () => {
+  it("passes the demo layout and reports its figures", () => {
+    const r = check({});
+    expect(worstVerdict(r.findings)).toBe("pass");
+    expect(r.findings.every((f) => f.step === "layout")).toBe(true);
+    expect(r.figures.matchedShape).toBe("1x1");
+    expect(r.figures.dieSource).toBe("outline");
+    expect(r.figures.dieUm).toEqual([0, 0, 160, 100]); // DEMO_RULESET tile 160 × 100 µm
+    expect(r.figures.flipFlops).toBe(140);
+    // 70 gc_dff (6.4 × 2.8 µm) + 70 gc_dffr (7.2 × 2.8 µm) are part of the placed area, computed by hand.
+    expect(r.figures.placedCellAreaUm2).toBeGreaterThan(70 * 6.4 * 2.8 + 70 * 7.2 * 2.8);
+    expect(r.figures.utilization).toBeGreaterThan(0.1);
+    expect(r.figures.utilization).toBeLessThan(1);
+    // 8 pins of the demo pin list, three of them 2-bit buses labelled per bit: 5 + 3 × 2 = 11 labels.
+    expect(r.figures.pinsLabelled).toHaveLength(11);
+  });
+
+  it("matches the 2x1 shape for a two-tile die", () => {
+    const r = check({ shape: "2x1" });
+    expect(r.figures.matchedShape).toBe("2x1");
+    expect(verdictOf(r, "layout.die.size")).toBe("pass");
+  });
+
+  it("fails a die bigger than maxTiles allows", () => {
+    const r = check({ break: { tooBig: true } });
+    expect(verdictOf(r, "layout.die.size")).toBe("fail");
+    expect(r.figures.matchedShape).toBeNull();
+    expect(r.findings.find((f) => f.rule === "layout.die.size")?.measured).toBe("480 × 100 µm"); // 3 tiles × 160 µm
+  });
+
+  it("fails a missing pin label and names it", () => {
+    const r = check({ break: { missingPin: "vga_g" } });
+    expect(verdictOf(r, "layout.pins.labelled")).toBe("fail");
+    expect(r.figures.pinsMissing).toEqual(["vga_g[0]", "vga_g[1]"]);
+  });
+
+  it("fails a forbidden memory macro", () => {
+    const r = check({ break: { forbiddenCell: true } });
+    expect(verdictOf(r, "layout.cells.forbidden")).toBe("fail");
+    expect(r.figures.forbiddenCells).toEqual({ gc_sram_64x8: 1 });
+  });
+
+  it("fails geometry outside the die by the measured overhang", () => {
+    const r = check({ break: { outsideBoundary: true } });
+    expect(verdictOf(r, "layout.geometry.outside")).toBe("fail");
+    expect(r.findings.find((f) => f.rule === "layout.geometry.outside")?.measured).toBe("5 µm outside (right)");
+  });
+
+  it("fails too many flip-flops against a budget", () => {
+    const ruleset = rulesetSchema.parse({ topModule: "gc_entry", pins: DEMO_PINS, flipFlopBudget: 100 });
+    const r = check({ flipFlops: 80, break: { tooManyFlipFlops: true } }, ruleset);
+    expect(r.figures.flipFlops).toBe(110);
+    expect(verdictOf(r, "layout.flipflops.count")).toBe("fail");
+  });
+
+  it("fails pins away from the die edge, warns on a missing outline and on stray labels", () => {
+    const bytes = writeLayout({
+      libName: "P",
+      userUnitsPerDbUnit: 0.001,
+      metersPerDbUnit: 1e-9,
+      structures: [
+        {
+          name: "gc_entry",
+          elements: [
+            { kind: "boundary", layer: 1, datatype: 0, points: [0, 0, 160000, 0, 160000, 100000, 0, 100000] },
+            ...["clk", "rst_n", "vga_r", "vga_g", "vga_b", "vga_hs", "vga_vs", "pwm_out"].map((t, i) => ({ kind: "text" as const, layer: 70, texttype: 0, x: 10000 * (i + 1), y: 0, text: t })),
+            { kind: "text", layer: 70, texttype: 0, x: 50000, y: 50000, text: "clk" },
+            { kind: "text", layer: 70, texttype: 0, x: 0, y: 20000, text: "debug" },
+          ],
+        },
+      ],
+    });
+    const r = checkLayout(readLayout(bytes), DEMO_RULESET);
+    expect(verdictOf(r, "layout.die.outline")).toBe("warn");
+    expect(r.figures.dieSource).toBe("tile-at-origin");
+    expect(verdictOf(r, "layout.pins.labelled")).toBe("pass"); // buses labelled once by name
+    expect(verdictOf(r, "layout.pins.edge")).toBe("pass"); // one of the two clk labels is on the edge
+    expect(verdictOf(r, "layout.pins.extra")).toBe("warn");
+    const moved = writeLayout({
+      libName: "P",
+      userUnitsPerDbUnit: 0.001,
+      metersPerDbUnit: 1e-9,
+      structures: [{ name: "gc_entry", elements: [{ kind: "boundary", layer: 200, datatype: 0, points: [0, 0, 160000, 0, 160000, 100000, 0, 100000] }, { kind: "text", layer: 70, texttype: 0, x: 80000, y: 1500, text: "clk" }] }],
+    });
+    const r2 = checkLayout(readLayout(moved), DEMO_RULESET);
+    expect(verdictOf(r2, "layout.pins.edge")).toBe("fail"); // 1.5 µm from the edge, tolerance 1 µm
+  });
+
+  it("reports a broken pattern in the ruleset as a LayoutCheckError", () => {
+    const ruleset = { ...DEMO_RULESET, flipFlopPattern: "(" };
+    expect(() => checkLayout(readLayout(generateDemoLayout({ flipFlops: 2, logicCells: 2 }).bytes), ruleset)).toThrow(LayoutCheckError);
+  });
+});
