@@ -10,6 +10,12 @@ export default [
   route("welcome", "routes/welcome.tsx"),
   route("forgot-password", "routes/forgot-password.tsx"),
   route("reset-password", "routes/reset-password.tsx"),
+  // role homes
+  route("events", "routes/events.tsx"),
+  route("my/entries", "routes/my.entries.tsx"),
+  route("judging", "routes/judging.tsx"),
+  route("organize", "routes/organize.tsx"),
+  route("admin", "routes/admin.tsx"),
   // JSON API
   route("api/auth/*", "routes/api.auth.ts"),
   route("api/me", "routes/api.me.ts"),

@@ -1,0 +1,86 @@
+import { eq } from "drizzle-orm";
+import { auth } from "~/auth/auth.server";
+import type { Db } from "~/db/client.server";
+import { account, competitions, crewMembers, crews, criteria, entries, eventRoles, events, juryAssignments, user } from "~/db/schema";
+import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_DESIGNS } from "../../demo/designs/index";
+import { DEMO_COMPETITIONS, DEMO_CRITERIA, DEMO_EVENT, DEMO_PASSWORD, DEMO_PEOPLE } from "./scenario";
+
+const DAY = 24 * 3600 * 1000;
+
+/**
+ * Seeds the demo scenario once: a second run finds the event and changes nothing.
+ * Returns what it created so the caller can queue the demo check runs.
+ */
+export async function seedDemo(db: Db, now = new Date()): Promise<{ seeded: boolean; entryIds: string[] }> {
+  const existing = await db.select({ id: events.id }).from(events).where(eq(events.slug, DEMO_EVENT.slug));
+  if (existing.length > 0) return { seeded: false, entryIds: [] };
+
+  const ctx = await auth().$context;
+  const hash = await ctx.password.hash(DEMO_PASSWORD);
+  const ids: Record<string, string> = {};
+  return db.transaction(async (tx) => {
+    for (const p of DEMO_PEOPLE) {
+      const id = crypto.randomUUID();
+      ids[p.key] = id;
+      await tx.insert(user).values({ id, name: p.name, email: p.email, emailVerified: true, role: p.admin ? "admin" : "user" });
+      await tx.insert(account).values({ id: crypto.randomUUID(), accountId: id, providerId: "credential", userId: id, password: hash });
+    }
+    const [event] = await tx
+      .insert(events)
+      .values({ ...DEMO_EVENT, startsAt: new Date(now.getTime() + 20 * DAY), endsAt: new Date(now.getTime() + 23 * DAY), createdBy: ids.organizer })
+      .returning();
+    await tx.insert(eventRoles).values([
+      { eventId: event.id, userId: ids.organizer, role: "organizer" },
+      ...["judge1", "judge2", "judge3"].map((k) => ({ eventId: event.id, userId: ids[k], role: "judge" as const })),
+    ]);
+    const compIds: Record<"open" | "judging", string> = { open: "", judging: "" };
+    for (const key of ["open", "judging"] as const) {
+      const c = DEMO_COMPETITIONS[key];
+      const deadline = new Date(now.getTime() + c.deadlineInDays * DAY);
+      const [row] = await tx
+        .insert(competitions)
+        .values({
+          eventId: event.id,
+          slug: c.slug,
+          title: c.title,
+          description: c.description,
+          state: c.state,
+          deadlineAt: deadline,
+          votingOpensAt: key === "judging" ? new Date(now.getTime() - DAY) : new Date(deadline.getTime() + 2 * DAY),
+          votingClosesAt: key === "judging" ? new Date(now.getTime() + 5 * DAY) : new Date(deadline.getTime() + 3 * DAY),
+          feeAmount: c.feeAmount,
+          feeCurrency: c.feeCurrency,
+          ruleset: DEMO_RULESET,
+          rulesetVersion: DEMO_RULESET.version,
+          ballotMethod: key === "judging" ? "schulze" : "points",
+        })
+        .returning();
+      compIds[key] = row.id;
+      await tx.insert(criteria).values(DEMO_CRITERIA.map((cr, i) => ({ ...cr, competitionId: row.id, position: i })));
+      await tx.insert(juryAssignments).values(["judge1", "judge2", "judge3"].map((k) => ({ competitionId: row.id, judgeUserId: ids[k] })));
+    }
+    const entryIds: string[] = [];
+    for (const [i, d] of DEMO_DESIGNS.entries()) {
+      const captain = ids[`entrant${i + 1}`];
+      const [crew] = await tx
+        .insert(crews)
+        .values({ handle: d.crew.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, ""), name: d.crew, createdBy: captain })
+        .returning();
+      await tx.insert(crewMembers).values({ crewId: crew.id, userId: captain, role: "captain" });
+      const comp = DEMO_COMPETITIONS[d.competition];
+      const [entry] = await tx
+        .insert(entries)
+        .values({
+          competitionId: compIds[d.competition],
+          crewId: crew.id,
+          title: d.title,
+          description: d.description,
+          feeState: comp.feeAmount === 0 ? "not_required" : i % 2 === 0 ? "paid" : "unpaid",
+        })
+        .returning();
+      entryIds.push(entry.id);
+    }
+    return { seeded: true, entryIds };
+  });
+}

@@ -1,0 +1,44 @@
+import { count } from "drizzle-orm";
+import { requireAdmin } from "~/auth/guards.server";
+import { db } from "~/db/client.server";
+import { competitions, entries, events, user } from "~/db/schema";
+import type { Route } from "./+types/admin";
+
+export const meta: Route.MetaFunction = () => [{ title: "Admin · Gatecrash" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireAdmin(request);
+  const [[u], [e], [c], [n]] = await Promise.all([
+    db().select({ n: count() }).from(user),
+    db().select({ n: count() }).from(events),
+    db().select({ n: count() }).from(competitions),
+    db().select({ n: count() }).from(entries),
+  ]);
+  return { users: u.n, events: e.n, competitions: c.n, entries: n.n };
+}
+
+export default function Admin({ loaderData: d }: Route.ComponentProps) {
+  return (
+    <div data-testid="admin-home">
+      <p className="kicker">Platform</p>
+      <h1 className="mb-6 mt-1 text-display font-extrabold">Admin</h1>
+      <dl className="grid grid-cols-2 gap-3 sm:grid-cols-4">
+        {(
+          [
+            ["Accounts", d.users],
+            ["Events", d.events],
+            ["Compos", d.competitions],
+            ["Entries", d.entries],
+          ] as const
+        ).map(([k, v]) => (
+          <div key={k} className="card">
+            <dt className="text-sm text-mute">{k}</dt>
+            <dd className="text-3xl font-extrabold">{v}</dd>
+          </div>
+        ))}
+      </dl>
+    </div>
+  );
+}
+
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/RouteErrorBoundary";

@@ -1,0 +1,24 @@
+/**
+ * Calls a route module's loader or action the way React Router does, and reports the outcome as a status:
+ * a returned value is 200, a thrown redirect is its 3xx with a location, a thrown data(…, {status}) its status.
+ */
+export interface Outcome<T> {
+  status: number;
+  location?: string;
+  data?: T;
+}
+
+type RouteFn<T> = (args: { request: Request; params: Record<string, string | undefined>; context: unknown }) => Promise<T>;
+
+export async function callRoute<T>(fn: unknown, request: Request, params: Record<string, string> = {}): Promise<Outcome<T>> {
+  try {
+    const value = await (fn as RouteFn<T>)({ request, params, context: {} });
+    if (value instanceof Response) return { status: value.status, location: value.headers.get("location") ?? undefined };
+    return { status: 200, data: value };
+  } catch (thrown) {
+    if (thrown instanceof Response) return { status: thrown.status, location: thrown.headers.get("location") ?? undefined };
+    const t = thrown as { type?: string; init?: { status?: number }; data?: T };
+    if (t?.type === "DataWithResponseInit") return { status: t.init?.status ?? 200, data: t.data };
+    throw thrown;
+  }
+}
