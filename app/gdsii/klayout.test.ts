@@ -28,7 +28,7 @@ function expectAgreement(ours: LayoutSummary, theirs: KlayoutSummary): void {
   expect(ours.topCell).toBe(theirs.topCell);
   expectSameBox(ours.bboxUm, theirs.bboxUm);
   expect(ours.instances).toEqual(theirs.instances);
-  const sortLabels = (l: { text: string; xUm: number }[]) => [...l].sort((a, b) => a.text.localeCompare(b.text) || a.xUm - b.xUm);
+  const sortLabels = <T extends { text: string; xUm: number }>(l: T[]) => [...l].sort((a, b) => a.text.localeCompare(b.text) || a.xUm - b.xUm);
   const a = sortLabels(ours.labels);
   const b = sortLabels(theirs.labels);
   expect(a.map((l) => l.text)).toEqual(b.map((l) => l.text));

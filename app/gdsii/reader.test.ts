@@ -6,11 +6,15 @@ import { GdsiiError } from "./errors";
 import { readLayout, LayoutReader } from "./reader";
 import { readLayoutFile } from "./reader.server";
 import { RecordType as R, DataType as D } from "./records";
-import { RecordWriter, writeLayout, type GdsLibrary, type GdsStructure } from "./writer";
+import { RecordWriter, writeLayout, type GdsElement, type GdsLibrary, type GdsStructure } from "./writer";
 
 const lib = (structures: GdsStructure[]): GdsLibrary => ({ libName: "T", userUnitsPerDbUnit: 0.001, metersPerDbUnit: 1e-9, structures });
-const rect = (layer: number, x0: number, y0: number, x1: number, y1: number) =>
-  ({ kind: "boundary", layer, datatype: 0, points: [x0, y0, x1, y0, x1, y1, x0, y1] }) as const;
+const rect = (layer: number, x0: number, y0: number, x1: number, y1: number): GdsElement => ({
+  kind: "boundary",
+  layer,
+  datatype: 0,
+  points: [x0, y0, x1, y0, x1, y1, x0, y1],
+});
 
 function expectGdsiiError(fn: () => unknown, pattern: RegExp): GdsiiError {
   let caught: unknown;
