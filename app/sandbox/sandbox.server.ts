@@ -64,6 +64,8 @@ export function sandboxArgv(req: SandboxRequest): string[] {
   const bwrap = [
     "bwrap",
     ...bind,
+    // Debian resolves some shared libraries (libblas, liblapack for ffmpeg) through /etc/alternatives
+    "--ro-bind-try", "/etc/alternatives", "/etc/alternatives",
     "--proc", "/proc",
     "--dev", "/dev",
     "--tmpfs", "/tmp",

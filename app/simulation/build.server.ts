@@ -3,6 +3,7 @@ import { dirname, isAbsolute, join, normalize } from "node:path";
 import type { Ruleset } from "~/conformance/ruleset";
 import { runSandboxed, type SandboxResult } from "~/sandbox/sandbox.server";
 import { generateHarness } from "./harness";
+import { RUNTIME_OBJECTS, verilatorRuntime } from "./runtime-cache.server";
 import { parseHarnessSummary, type HarnessSummary } from "./summary";
 
 /**
@@ -64,13 +65,18 @@ function tail(text: string, max = 4000): string {
 }
 
 export function verilatorArgs(ruleset: Ruleset, sources: string[]): string[] {
-  // Flags from EDA.md; OPT_FAST=-O2 builds the model for speed rather than size.
+  // Flags from EDA.md, without --build: make runs separately so prebuilt runtime objects can be dropped in.
   return [
-    "--cc", "--exe", "--build", "-O3", "--x-assign", "fast", "--x-initial", "fast", "--noassert", "-Wno-fatal",
-    "--top-module", ruleset.topModule, "--prefix", "Vtop", "-Mdir", "obj", "-MAKEFLAGS", "OPT_FAST=-O2",
-    ...sources, "harness.cpp", "-j", "2",
+    "--cc", "--exe", "-O3", "--x-assign", "fast", "--x-initial", "fast", "--noassert", "-Wno-fatal",
+    "--top-module", ruleset.topModule, "--prefix", "Vtop", "-Mdir", "obj", ...sources, "harness.cpp",
   ];
 }
+
+// Arguments reach verilator through "$@", never through the shell's parser. The runtime objects are
+// copied after verilator has written obj/Vtop.mk, which they must be newer than. OPT_FAST=-O2 builds the
+// model for speed rather than size.
+const COMPILE_SCRIPT =
+  'verilator "$@" && { [ ! -d runtime ] || cp runtime/verilated.o runtime/verilated_threads.o obj/; } && make -s -C obj -f Vtop.mk -j 2 OPT_FAST=-O2';
 
 export async function simulateDesign(req: SimulationRequest): Promise<SimulationOutcome> {
   const { ruleset } = req;
@@ -93,10 +99,15 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
   });
   writeFileSync(join(buildDir, "harness.cpp"), generateHarness(ruleset));
 
+  const runtime = await verilatorRuntime();
+  if (runtime) {
+    mkdirSync(join(buildDir, "runtime"));
+    for (const name of RUNTIME_OBJECTS) copyFileSync(join(runtime, name), join(buildDir, "runtime", name));
+  }
   const memoryBytes = ruleset.simulation.memoryMb * 1024 * 1024;
   const compile = await runSandboxed({
-    command: "/usr/bin/verilator",
-    args: verilatorArgs(ruleset, sources),
+    command: "/bin/sh",
+    args: ["-c", COMPILE_SCRIPT, "sh", ...verilatorArgs(ruleset, sources)],
     buildDir,
     limits: {
       wallSeconds: ruleset.simulation.compileSeconds,

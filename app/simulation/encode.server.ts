@@ -62,7 +62,7 @@ export async function encodePreview(req: EncodeRequest): Promise<EncodedPreview>
       maxOutputBytes: 64 * 1024,
     });
     if (result.exitCode !== 0 || result.timedOut) {
-      throw new EncodeError(`ffmpeg could not write ${job.out}${result.timedOut ? " in time" : ""}`, result.stderr);
+      throw new EncodeError(`ffmpeg could not write ${job.out}${result.timedOut ? " in time" : ""}: ${result.stderr.trim().split("\n").slice(-3).join(" / ")}`, result.stderr);
     }
   }
   return { webm: join(dir, "preview.webm"), mp4: join(dir, "preview.mp4"), ms: Date.now() - started };
