@@ -1,0 +1,71 @@
+import { and, asc, desc, eq } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { artifacts, checkRuns, findings, uploads } from "~/db/schema";
+
+/**
+ * The latest check run of an entry's counting upload (the newest complete, on-time one), with its findings and
+ * artifacts. Artifacts are served through /artifacts/:id, which checks who may see them.
+ */
+export interface EntryCheck {
+  uploadId: string;
+  uploadNumber: number;
+  run: {
+    id: string;
+    state: "queued" | "running" | "done" | "error";
+    step: string | null;
+    verdict: "pass" | "warn" | "fail" | null;
+    figures: Record<string, unknown>;
+    error: string | null;
+    queuedAt: string;
+    finishedAt: string | null;
+  } | null;
+  findings: {
+    step: string;
+    rule: string;
+    verdict: "pass" | "warn" | "fail";
+    title: string;
+    measured: string | null;
+    limit: string | null;
+    evidence: string | null;
+    advice: string | null;
+  }[];
+  artifacts: Record<string, { id: string; url: string; mediaType: string; sizeBytes: number }>;
+}
+
+export async function countingUpload(entryId: string): Promise<{ id: string; number: number } | null> {
+  const [u] = await db()
+    .select({ id: uploads.id, number: uploads.number })
+    .from(uploads)
+    .where(and(eq(uploads.entryId, entryId), eq(uploads.state, "complete")))
+    .orderBy(desc(uploads.number))
+    .limit(1);
+  return u ?? null;
+}
+
+export async function checkOfUpload(uploadId: string, uploadNumber: number): Promise<EntryCheck> {
+  const [run] = await db().select().from(checkRuns).where(eq(checkRuns.uploadId, uploadId)).orderBy(desc(checkRuns.queuedAt)).limit(1);
+  if (!run) return { uploadId, uploadNumber, run: null, findings: [], artifacts: {} };
+  const fs = await db().select().from(findings).where(eq(findings.checkRunId, run.id)).orderBy(asc(findings.position));
+  const as = await db().select().from(artifacts).where(eq(artifacts.checkRunId, run.id));
+  return {
+    uploadId,
+    uploadNumber,
+    run: {
+      id: run.id,
+      state: run.state,
+      step: run.step,
+      verdict: run.verdict,
+      figures: run.figures as Record<string, unknown>,
+      error: run.error,
+      queuedAt: run.queuedAt.toISOString(),
+      finishedAt: run.finishedAt?.toISOString() ?? null,
+    },
+    findings: fs.map((f) => ({ step: f.step, rule: f.rule, verdict: f.verdict, title: f.title, measured: f.measured, limit: f.limitValue, evidence: f.evidence, advice: f.advice })),
+    artifacts: Object.fromEntries(as.map((a) => [a.kind, { id: a.id, url: `/artifacts/${a.id}`, mediaType: a.mediaType, sizeBytes: a.sizeBytes }])),
+  };
+}
+
+export async function latestCheckFor(entryId: string): Promise<EntryCheck | null> {
+  const u = await countingUpload(entryId);
+  return u ? checkOfUpload(u.id, u.number) : null;
+}
