@@ -5,6 +5,7 @@ import { worstVerdict, type Finding } from "~/conformance/findings";
 import { runSandboxed, type SandboxLimits } from "~/sandbox/sandbox.server";
 import { dedupeFindings, definedMacros, mapPreprocessed, scanText } from "./precheck-rules";
 import { scanVerilatorXml } from "./precheck-xml";
+import { assertSandboxStarted, terminationSignal } from "./tool-run";
 
 /**
  * The pre-check runs before any other tool reads an upload: verilator and yosys both execute or
@@ -17,12 +18,12 @@ export interface PrecheckOptions {
   scratchDir?: string;
 }
 
+/** Process count stays at the sandbox default: RLIMIT_NPROC counts every process of the sandbox user, machine-wide. */
 export const PRECHECK_LIMITS: Partial<SandboxLimits> = {
   cpuSeconds: 30,
   wallSeconds: 60,
   memoryBytes: 2_000_000_000,
   fileSizeBytes: 200_000_000,
-  processes: 64,
 };
 
 const MAX_FINDINGS = 50;
@@ -100,6 +101,11 @@ export async function scanElaboratedSources(dir: string, verilogFiles: string[],
   });
 }
 
+/** verilator names files as staged (src/…, maybe /build/src/…); one such prefix per mention is ours. */
+function withUploadNames(text: string): string {
+  return text.replace(/(^|[\s'"`(])(?:\/build\/)?src\//gm, "$1");
+}
+
 const fromBuild = (reported: string) => (reported.startsWith(`${SRC}/`) ? reported.slice(SRC.length + 1) : reported);
 
 async function withBuild(
@@ -137,12 +143,14 @@ interface ToolRun {
 }
 
 function toolProblem(rule: string, title: string, run: ToolRun): Finding | null {
-  if (run.timedOut || run.signal) {
-    const why = run.timedOut ? "it ran past its time limit" : `it was stopped by ${run.signal} (CPU or memory limit)`;
+  assertSandboxStarted(run);
+  const signal = terminationSignal(run);
+  if (run.timedOut || signal) {
+    const why = run.timedOut ? "it ran past its time limit" : `it was stopped by ${signal} (CPU or memory limit)`;
     return fail(rule, `${title}: ${why}`, "Look for a generate loop, recursion or macro that never ends.");
   }
   if (run.truncated) return fail(rule, `${title}: its output is too large`, "Shrink the design or its macros.");
-  if (run.exitCode !== 0) return fail(rule, title, "Fix the error verilator reports and upload again.", trimToolMessage(run.stderr));
+  if (run.exitCode !== 0) return fail(rule, title, "Fix the error verilator reports and upload again.", trimToolMessage(withUploadNames(run.stderr)));
   return null;
 }
 
@@ -152,7 +160,7 @@ export function trimToolMessage(text: string, maxChars = 600): string {
     .map((l) => l.trimEnd())
     .filter((l) => /^%(Error|Warning)|ERROR|error/i.test(l))
     .slice(0, 6);
-  const message = (lines.length > 0 ? lines.join("\n") : text.trim()).replaceAll("/build/src/", "").replaceAll(`${SRC}/`, "");
+  const message = lines.length > 0 ? lines.join("\n") : text.trim();
   return message.length > maxChars ? `${message.slice(0, maxChars)}…` : message;
 }
 
