@@ -1,6 +1,7 @@
 // "Copper Kelp" by Kelp Logic, Voltage Drop 2027 (invented demo data).
-// Six shaded raster bars ride a sine curve built from a parabola, over a backdrop of
-// columns that sway line by line; a pulse-wave bass line plays on pwm_out. Passes every rule.
+// Six shaded raster bars ride a sine curve built from a parabola (one sine unit, shared
+// in horizontal blanking), over a backdrop of columns that sway line by line; a pulse-wave
+// bass line plays on pwm_out. Passes every rule.
 module gc_entry (
   input            clk,
   input            rst_n,
@@ -41,11 +42,9 @@ module gc_entry (
 
   // Bar i is centred at 232 + 1.5 * sine(2 * frame + 37 * i): a little wider than the screen's middle.
   function [9:0] bar_centre;
-    input [7:0] phase;
-    reg signed [8:0] s;
+    input signed [8:0] s;
     reg signed [10:0] swing;
     begin
-      s = sine(phase);
       swing = {{2{s[8]}}, s} + {{3{s[8]}}, s[8:1]};
       bar_centre = 10'd232 + swing[9:0];
     end
@@ -62,16 +61,51 @@ module gc_entry (
     end
   endfunction
 
-  wire [7:0] t2 = {frame[6:0], 1'b0};
-  wire [1:0] s0 = shade(v, bar_centre(t2));
-  wire [1:0] s1 = shade(v, bar_centre(t2 + 8'd37));
-  wire [1:0] s2 = shade(v, bar_centre(t2 + 8'd74));
-  wire [1:0] s3 = shade(v, bar_centre(t2 + 8'd111));
-  wire [1:0] s4 = shade(v, bar_centre(t2 + 8'd148));
-  wire [1:0] s5 = shade(v, bar_centre(t2 + 8'd185));
+  // One sine unit serves the whole picture: in the first seven clocks of each horizontal
+  // blanking it computes the six bar centres and the backdrop sway for the next line,
+  // one per clock, into registers.
+  wire [9:0] next_line  = (v == V_LAST) ? 10'd0 : v + 10'd1;
+  wire [8:0] next_frame = (v == V_LAST) ? frame + 9'd1 : frame;
+  wire [9:0] blank_step = h - H_VISIBLE;           // 0..6 selects what to compute
+  reg  [7:0] step_phase;
+  always @(*)
+    case (blank_step[2:0])
+      3'd0: step_phase = {next_frame[6:0], 1'b0};
+      3'd1: step_phase = {next_frame[6:0], 1'b0} + 8'd37;
+      3'd2: step_phase = {next_frame[6:0], 1'b0} + 8'd74;
+      3'd3: step_phase = {next_frame[6:0], 1'b0} + 8'd111;
+      3'd4: step_phase = {next_frame[6:0], 1'b0} + 8'd148;
+      3'd5: step_phase = {next_frame[6:0], 1'b0} + 8'd185;
+      default: step_phase = {next_line[6:0], 1'b0} + {next_frame[6:0], 1'b0} + next_frame[7:0];
+    endcase
+  wire signed [8:0] step_sine = sine(step_phase);
+  wire [9:0] step_centre = bar_centre(step_sine);
+
+  reg [9:0] centre0, centre1, centre2, centre3, centre4, centre5;
+  reg signed [8:0] sway;
+  always @(posedge clk or negedge rst_n)
+    if (!rst_n) begin
+      centre0 <= 10'd0; centre1 <= 10'd0; centre2 <= 10'd0; centre3 <= 10'd0; centre4 <= 10'd0; centre5 <= 10'd0;
+      sway <= 9'sd0;
+    end else if (blank_step < 10'd7)
+      case (blank_step[2:0])
+        3'd0: centre0 <= step_centre;
+        3'd1: centre1 <= step_centre;
+        3'd2: centre2 <= step_centre;
+        3'd3: centre3 <= step_centre;
+        3'd4: centre4 <= step_centre;
+        3'd5: centre5 <= step_centre;
+        default: sway <= step_sine;
+      endcase
+
+  wire [1:0] s0 = shade(v, centre0);
+  wire [1:0] s1 = shade(v, centre1);
+  wire [1:0] s2 = shade(v, centre2);
+  wire [1:0] s3 = shade(v, centre3);
+  wire [1:0] s4 = shade(v, centre4);
+  wire [1:0] s5 = shade(v, centre5);
 
   // The backdrop: dark columns, each line shifted by its own sine, so the columns sway.
-  wire signed [8:0] sway = sine({v[6:0], 1'b0} + {frame[6:0], 1'b0} + frame[7:0]);
   wire [9:0] swayed_x = h + {{4{sway[8]}}, sway[8:3]};
   wire [5:0] backdrop = swayed_x[5] ? 6'b00_00_01 : 6'b00_00_00;
 
