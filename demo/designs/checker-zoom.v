@@ -43,10 +43,12 @@ module gc_entry (
   // Per frame: angle and zoom. The zoom swings between 0.5 and 1.5 (as 64..192 over 128).
   wire [7:0] angle = frame[8:1];
   wire [7:0] zoom  = 8'd64 + {frame[7] ? ~frame[6:0] : frame[6:0], 1'b0} - {7'd0, frame[7]};
-  wire signed [8:0]  cos_a = sine(angle + 8'd64);
-  wire signed [8:0]  sin_a = sine(angle);
-  wire signed [17:0] cos_zoomed = cos_a * $signed({1'b0, zoom});
-  wire signed [17:0] sin_zoomed = sin_a * $signed({1'b0, zoom});
+  // One sine unit and one multiplier, used twice at the start of vertical blanking:
+  // first for the cosine (on the last clock of the last visible line), then the sine.
+  wire               take_cos = end_of_video;
+  wire               take_sin = (v == V_VISIBLE) && (h == 10'd0);
+  wire signed [8:0]  wave     = sine(take_sin ? angle : angle + 8'd64);
+  wire signed [17:0] zoomed   = wave * $signed({1'b0, zoom});
 
   // Texture steps per screen pixel, 8 fraction bits (256 = one texel per pixel at zoom 1).
   reg signed [11:0] step_c, step_s;
@@ -66,10 +68,8 @@ module gc_entry (
       step_c <= 12'sd256; step_s <= 12'sd0;
       line_u <= 22'sd0; line_w <= 22'sd0; u <= 22'sd0; w <= 22'sd0;
     end else begin
-      if (end_of_video) begin           // new angle and zoom during vertical blanking
-        step_c <= cos_zoomed[17:6];
-        step_s <= sin_zoomed[17:6];
-      end
+      if (take_cos) step_c <= zoomed[17:6];   // new angle and zoom during vertical blanking
+      if (take_sin) step_s <= zoomed[17:6];
       if (end_of_frame) begin
         line_u <= origin_u; line_w <= origin_w; u <= origin_u; w <= origin_w;
       end else if (end_of_line) begin   // one line down: u -= sin, w += cos
