@@ -123,6 +123,8 @@ describe("extractBundle: hostile and broken bundles", () => {
       ["fifo", [{ name: "pipe.v", type: "fifo" }], "device"],
       ["duplicate", [{ name: "a.v", data: "1" }, { name: "A.v", data: "2" }], "duplicate-path"],
       ["deep", [{ name: "1/2/3/4/5/6/7/8/9/x.v", data: "x" }], "too-deep"],
+      ["control-character", [{ name: "bell\u0007.v", data: "x" }], "bad-name"],
+      ["file-and-folder", [{ name: "rtl", data: "x" }, { name: "rtl/top.v", data: "x" }], "duplicate-path"],
     ];
     for (const [label, members, code] of cases) {
       const archive = join(work, `${label}.tar.gz`);
