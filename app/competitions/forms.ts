@@ -1,0 +1,342 @@
+import { z } from "zod";
+import { PIN_ROLES, rulesetSchema, TILE_SHAPE, type Ruleset, type RulesetInput } from "~/conformance/ruleset";
+import { VIDEO_MODES } from "~/conformance/video-modes";
+import { isValidTimeZone, utcToZonedWallTime, zonedWallTimeToUtc } from "./timezone";
+
+/**
+ * Form schemas for events and competitions, shared by the browser (Conform validation) and the server.
+ * Times are typed on the event's wall clock ("YYYY-MM-DDTHH:mm") and stored in UTC.
+ */
+export const SLUG = /^[a-z0-9](?:[a-z0-9-]{0,62}[a-z0-9])?$/;
+const slugField = z.string().trim().toLowerCase().regex(SLUG, "Lower-case letters, digits and dashes, e.g. open-gate.").optional();
+
+export function slugify(s: string): string {
+  return (
+    s
+      .normalize("NFKD")
+      .replace(/[\u0300-\u036f]/g, "")
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, "-")
+      .replace(/^-+|-+$/g, "")
+      .slice(0, 60)
+      .replace(/-+$/, "") || "compo"
+  );
+}
+
+const wallTime = z.string().optional();
+
+function checkWallTime(ctx: z.RefinementCtx, value: string | undefined, tz: string, path: (string | number)[]) {
+  if (!value) return;
+  const r = zonedWallTimeToUtc(value, tz);
+  if (!r.ok)
+    ctx.addIssue({
+      code: "custom",
+      path,
+      message: r.reason === "nonexistent" ? `This time does not exist in ${tz}: the clocks jump forward over it. Pick a time outside that hour.` : "A date and time, like 2027-03-28 20:00.",
+    });
+}
+
+export const eventFormSchema = z
+  .object({
+    title: z.string({ error: "Name the event." }).trim().min(3, "At least 3 characters.").max(120, "At most 120 characters."),
+    slug: slugField,
+    description: z.string().trim().max(4000, "At most 4000 characters.").optional(),
+    venue: z.string().trim().max(200, "At most 200 characters.").optional(),
+    timeZone: z.string({ error: "Pick the event's time zone." }).trim().refine(isValidTimeZone, "Not an IANA time zone name; try e.g. Europe/Berlin."),
+    startsAt: wallTime,
+    endsAt: wallTime,
+  })
+  .superRefine((v, ctx) => {
+    if (!isValidTimeZone(v.timeZone)) return;
+    checkWallTime(ctx, v.startsAt, v.timeZone, ["startsAt"]);
+    checkWallTime(ctx, v.endsAt, v.timeZone, ["endsAt"]);
+    if (v.startsAt && v.endsAt && v.endsAt < v.startsAt) ctx.addIssue({ code: "custom", path: ["endsAt"], message: "The end comes after the start." });
+  });
+export type EventForm = z.infer<typeof eventFormSchema>;
+
+const int = (min: number, max: number, what = "A whole number") =>
+  z.number({ error: `${what} from ${min} to ${max}.` }).int(`${what} from ${min} to ${max}.`).min(min, `At least ${min}.`).max(max, `At most ${max}.`);
+const positive = (max: number) => z.number({ error: "A number." }).positive("More than 0.").max(max, `At most ${max}.`);
+
+export const pinRowSchema = z.object({
+  name: z.string({ error: "Name the pin." }).trim().regex(/^[A-Za-z_][A-Za-z0-9_]*$/, "A Verilog identifier: letters, digits, _."),
+  direction: z.enum(["input", "output", "inout"], { error: "input, output or inout." }),
+  width: int(1, 64, "Bits"),
+  role: z.enum(PIN_ROLES, { error: "Pick a role." }),
+});
+
+export const criterionRowSchema = z
+  .object({
+    id: z.string().uuid().optional(),
+    name: z.string({ error: "Name the criterion." }).trim().min(1, "Name the criterion.").max(60, "At most 60 characters."),
+    weight: positive(100),
+    scaleMin: int(-100, 100),
+    scaleMax: int(-100, 100),
+  })
+  .superRefine((c, ctx) => {
+    if (c.scaleMax <= c.scaleMin) ctx.addIssue({ code: "custom", path: ["scaleMax"], message: "The top of the scale must be above its bottom." });
+  });
+
+function compiles(p: string): boolean {
+  try {
+    new RegExp(p, "i");
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+const MIB = 1024 * 1024;
+
+export const rulesetFormSchema = z.object({
+  topModule: z.string({ error: "Name the top module." }).trim().regex(/^[A-Za-z_][A-Za-z0-9_$]*$/, "A Verilog module name."),
+  pins: z.array(pinRowSchema, { error: "List at least one pin." }).min(1, "List at least one pin."),
+  resetActive: z.enum(["low", "high"]),
+  clock: z.object({ frequencyHz: positive(2_000_000_000), tolerancePct: z.number({ error: "A number." }).min(0, "At least 0.").max(10, "At most 10.") }),
+  videoMode: z.string().refine((m) => m in VIDEO_MODES, "Pick a known video mode."),
+  colourBitsPerChannel: int(1, 8, "Bits"),
+  tile: z.object({
+    widthUm: positive(100_000),
+    heightUm: positive(100_000),
+    maxTiles: int(1, 16, "Tiles"),
+    shapes: z
+      .string({ error: "List the allowed shapes, e.g. 1x1, 2x1." })
+      .refine((s) => splitList(s).length > 0, "List at least one shape, e.g. 1x1.")
+      .refine((s) => splitList(s).every((x) => TILE_SHAPE.test(x)), "Shapes are columns x rows from 1 to 9, e.g. 1x1, 2x1, 1x2."),
+  }),
+  pinLayer: z.object({ layer: int(0, 65535), datatype: int(0, 65535).optional(), edgeToleranceUm: z.number({ error: "A number." }).min(0, "At least 0.").max(1000) }),
+  flipFlopPattern: z.string({ error: "A pattern." }).refine(compiles, "This regular expression does not compile."),
+  flipFlopBudget: int(1, 10_000_000).optional(),
+  forbiddenCellPatterns: z
+    .string()
+    .optional()
+    .superRefine((s, ctx) => {
+      for (const p of splitLines(s ?? "")) if (!compiles(p)) ctx.addIssue({ code: "custom", message: `"${p}" does not compile as a regular expression.` });
+    }),
+  uploadLimits: z.object({
+    bundleMiB: positive(4096),
+    bundleUnpackedMiB: positive(16384),
+    bundleFiles: int(1, 100_000),
+    bundleDepth: int(1, 64),
+    bundleCompressionRatio: positive(100_000),
+    layoutMiB: positive(16384),
+    videoMiB: positive(16384),
+    stillMiB: positive(4096),
+  }),
+  simulation: z.object({
+    frames: int(1, 600, "Frames"),
+    resetCycles: int(1, 1_000_000),
+    compileSeconds: int(5, 600),
+    runSeconds: int(5, 3600),
+    memoryMb: int(256, 16384),
+  }),
+  flashCheck: z.object({ enabled: z.boolean().optional(), action: z.enum(["warn", "block"]) }),
+});
+export type RulesetForm = z.infer<typeof rulesetFormSchema>;
+
+export function splitList(s: string): string[] {
+  return s
+    .split(/[\s,;]+/)
+    .map((x) => x.trim())
+    .filter(Boolean);
+}
+export function splitLines(s: string): string[] {
+  return s
+    .split(/\r?\n/)
+    .map((x) => x.trim())
+    .filter(Boolean);
+}
+
+export function rulesetFromForm(f: RulesetForm): RulesetInput {
+  return {
+    version: 1,
+    topModule: f.topModule,
+    pins: f.pins,
+    resetActive: f.resetActive,
+    clock: f.clock,
+    videoMode: f.videoMode,
+    colourBitsPerChannel: f.colourBitsPerChannel,
+    tile: { widthUm: f.tile.widthUm, heightUm: f.tile.heightUm, maxTiles: f.tile.maxTiles, allowedShapes: splitList(f.tile.shapes) },
+    pinLayer: { layer: f.pinLayer.layer, datatype: f.pinLayer.datatype ?? null, edgeToleranceUm: f.pinLayer.edgeToleranceUm },
+    flipFlopPattern: f.flipFlopPattern,
+    flipFlopBudget: f.flipFlopBudget ?? null,
+    forbiddenCellPatterns: splitLines(f.forbiddenCellPatterns ?? ""),
+    uploadLimits: {
+      bundleBytes: Math.round(f.uploadLimits.bundleMiB * MIB),
+      bundleUnpackedBytes: Math.round(f.uploadLimits.bundleUnpackedMiB * MIB),
+      bundleFiles: f.uploadLimits.bundleFiles,
+      bundleDepth: f.uploadLimits.bundleDepth,
+      bundleCompressionRatio: f.uploadLimits.bundleCompressionRatio,
+      layoutBytes: Math.round(f.uploadLimits.layoutMiB * MIB),
+      videoBytes: Math.round(f.uploadLimits.videoMiB * MIB),
+      stillBytes: Math.round(f.uploadLimits.stillMiB * MIB),
+    },
+    simulation: f.simulation,
+    flashCheck: { enabled: f.flashCheck.enabled ?? false, action: f.flashCheck.action },
+  };
+}
+
+const mib = (bytes: number) => Math.round((bytes / MIB) * 1000) / 1000;
+
+/** A stored ruleset as the form's default values (numbers as strings the inputs show). */
+export function rulesetToForm(r: Ruleset) {
+  return {
+    topModule: r.topModule,
+    pins: r.pins.map((p) => ({ ...p, width: String(p.width) })),
+    resetActive: r.resetActive,
+    clock: { frequencyHz: String(r.clock.frequencyHz), tolerancePct: String(r.clock.tolerancePct) },
+    videoMode: r.videoMode,
+    colourBitsPerChannel: String(r.colourBitsPerChannel),
+    tile: { widthUm: String(r.tile.widthUm), heightUm: String(r.tile.heightUm), maxTiles: String(r.tile.maxTiles), shapes: r.tile.allowedShapes.join(", ") },
+    pinLayer: { layer: String(r.pinLayer.layer), datatype: r.pinLayer.datatype == null ? "" : String(r.pinLayer.datatype), edgeToleranceUm: String(r.pinLayer.edgeToleranceUm) },
+    flipFlopPattern: r.flipFlopPattern,
+    flipFlopBudget: r.flipFlopBudget == null ? "" : String(r.flipFlopBudget),
+    forbiddenCellPatterns: r.forbiddenCellPatterns.join("\n"),
+    uploadLimits: {
+      bundleMiB: String(mib(r.uploadLimits.bundleBytes)),
+      bundleUnpackedMiB: String(mib(r.uploadLimits.bundleUnpackedBytes)),
+      bundleFiles: String(r.uploadLimits.bundleFiles),
+      bundleDepth: String(r.uploadLimits.bundleDepth),
+      bundleCompressionRatio: String(r.uploadLimits.bundleCompressionRatio),
+      layoutMiB: String(mib(r.uploadLimits.layoutBytes)),
+      videoMiB: String(mib(r.uploadLimits.videoBytes)),
+      stillMiB: String(mib(r.uploadLimits.stillBytes)),
+    },
+    simulation: Object.fromEntries(Object.entries(r.simulation).map(([k, v]) => [k, String(v)])),
+    flashCheck: { enabled: r.flashCheck.enabled ? "on" : "", action: r.flashCheck.action },
+  };
+}
+
+/** The smallest unit of a currency (EUR: 2 decimals, JPY: 0), from Intl's currency data. */
+export function currencyDigits(currency: string): number {
+  try {
+    return new Intl.NumberFormat("en", { style: "currency", currency }).resolvedOptions().maximumFractionDigits ?? 2;
+  } catch {
+    return 2;
+  }
+}
+
+export function isKnownCurrency(c: string): boolean {
+  const intl = Intl as unknown as { supportedValuesOf?: (k: string) => string[] };
+  return /^[A-Za-z]{3}$/.test(c) && (intl.supportedValuesOf ? intl.supportedValuesOf("currency").includes(c.toUpperCase()) : true);
+}
+
+export function formatFee(amountMinor: number, currency: string): string {
+  if (amountMinor === 0) return "Free";
+  const digits = currencyDigits(currency);
+  return new Intl.NumberFormat("en-GB", { style: "currency", currency: currency.toUpperCase() }).format(amountMinor / 10 ** digits);
+}
+
+export function competitionFormSchema(timeZone: string) {
+  return z
+    .object({
+      title: z.string({ error: "Name the compo." }).trim().min(3, "At least 3 characters.").max(120, "At most 120 characters."),
+      slug: slugField,
+      description: z.string().trim().max(8000, "At most 8000 characters.").optional(),
+      deadline: wallTime,
+      graceMinutes: int(0, 1440, "Minutes").optional(),
+      votingOpens: wallTime,
+      votingCloses: wallTime,
+      free: z.boolean().optional(),
+      feeAmount: z.number({ error: "An amount, like 15.00." }).min(0, "At least 0.").max(100_000, "At most 100000.").optional(),
+      feeCurrency: z.string().trim().optional(),
+      criteria: z.array(criterionRowSchema).max(12, "At most 12 criteria.").optional(),
+      ruleset: rulesetFormSchema,
+    })
+    .superRefine((v, ctx) => {
+      checkWallTime(ctx, v.deadline, timeZone, ["deadline"]);
+      checkWallTime(ctx, v.votingOpens, timeZone, ["votingOpens"]);
+      checkWallTime(ctx, v.votingCloses, timeZone, ["votingCloses"]);
+      if (v.votingOpens && !v.votingCloses) ctx.addIssue({ code: "custom", path: ["votingCloses"], message: "When does voting close?" });
+      if (v.votingCloses && !v.votingOpens) ctx.addIssue({ code: "custom", path: ["votingOpens"], message: "When does voting open?" });
+      if (v.votingOpens && v.votingCloses && v.votingCloses <= v.votingOpens) ctx.addIssue({ code: "custom", path: ["votingCloses"], message: "Voting closes after it opens." });
+      if (!v.free) {
+        if (!v.feeAmount) ctx.addIssue({ code: "custom", path: ["feeAmount"], message: "Enter the fee, or tick “Free entry”." });
+        if (!v.feeCurrency || !isKnownCurrency(v.feeCurrency)) ctx.addIssue({ code: "custom", path: ["feeCurrency"], message: "A three-letter ISO 4217 currency code, like EUR." });
+      }
+      const names = (v.criteria ?? []).map((c) => c.name.toLowerCase());
+      names.forEach((n, i) => {
+        if (names.indexOf(n) !== i) ctx.addIssue({ code: "custom", path: ["criteria", i, "name"], message: "Two criteria have this name." });
+      });
+      const pinNames = v.ruleset.pins.map((p) => p.name);
+      pinNames.forEach((n, i) => {
+        if (pinNames.indexOf(n) !== i) ctx.addIssue({ code: "custom", path: ["ruleset", "pins", i, "name"], message: "Two pins have this name." });
+      });
+      const r = rulesetSchema.safeParse(rulesetFromForm(v.ruleset));
+      if (!r.success) for (const issue of r.error.issues) ctx.addIssue({ code: "custom", path: ["ruleset", ...issue.path.map((p) => (typeof p === "symbol" ? String(p) : p))], message: issue.message });
+    });
+}
+export type CompetitionForm = z.infer<ReturnType<typeof competitionFormSchema>>;
+
+export interface CompetitionValues {
+  title: string;
+  slug: string;
+  description: string;
+  deadlineAt: Date | null;
+  graceMinutes: number;
+  votingOpensAt: Date | null;
+  votingClosesAt: Date | null;
+  feeAmount: number;
+  feeCurrency: string;
+  criteria: { id?: string; name: string; weight: number; scaleMin: number; scaleMax: number }[];
+  ruleset: Ruleset;
+}
+
+const toUtc = (v: string | undefined, tz: string): Date | null => {
+  if (!v) return null;
+  const r = zonedWallTimeToUtc(v, tz);
+  return r.ok ? r.utc : null;
+};
+
+/** A validated form as the stored values (UTC instants, minor units, a parsed ruleset). */
+export function competitionValues(v: CompetitionForm, timeZone: string): CompetitionValues {
+  const currency = (v.feeCurrency || "eur").toLowerCase();
+  return {
+    title: v.title,
+    slug: v.slug || slugify(v.title),
+    description: v.description ?? "",
+    deadlineAt: toUtc(v.deadline, timeZone),
+    graceMinutes: v.graceMinutes ?? 0,
+    votingOpensAt: toUtc(v.votingOpens, timeZone),
+    votingClosesAt: toUtc(v.votingCloses, timeZone),
+    feeAmount: v.free ? 0 : Math.round((v.feeAmount ?? 0) * 10 ** currencyDigits(currency)),
+    feeCurrency: currency,
+    criteria: v.criteria ?? [],
+    ruleset: rulesetSchema.parse(rulesetFromForm(v.ruleset)),
+  };
+}
+
+/** Stored values as the form's defaults (wall-clock strings in the event's zone). */
+export function competitionToForm(
+  c: {
+    title: string;
+    slug: string;
+    description: string;
+    deadlineAt: Date | null;
+    graceMinutes: number;
+    votingOpensAt: Date | null;
+    votingClosesAt: Date | null;
+    feeAmount: number;
+    feeCurrency: string;
+    ruleset: Ruleset;
+    criteria: { id: string; name: string; weight: number; scaleMin: number; scaleMax: number }[];
+  },
+  tz: string,
+) {
+  const wall = (d: Date | null) => (d ? utcToZonedWallTime(d, tz) : "");
+  const digits = currencyDigits(c.feeCurrency);
+  return {
+    title: c.title,
+    slug: c.slug,
+    description: c.description,
+    deadline: wall(c.deadlineAt),
+    graceMinutes: String(c.graceMinutes),
+    votingOpens: wall(c.votingOpensAt),
+    votingCloses: wall(c.votingClosesAt),
+    free: c.feeAmount === 0 ? "on" : "",
+    feeAmount: c.feeAmount === 0 ? "" : (c.feeAmount / 10 ** digits).toFixed(digits),
+    feeCurrency: c.feeCurrency.toUpperCase(),
+    criteria: c.criteria.map((k) => ({ id: k.id, name: k.name, weight: String(k.weight), scaleMin: String(k.scaleMin), scaleMax: String(k.scaleMax) })),
+    ruleset: rulesetToForm(c.ruleset),
+  };
+}
