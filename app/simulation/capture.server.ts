@@ -39,7 +39,18 @@ export interface ReferenceCapture {
     mp4?: string;
   };
   audio: AudioFigures | null;
-  speed: { cycles: number; seconds: number; cpuSeconds: number; cyclesPerSecond: number; realTimeMultiple: number } | null;
+  speed: {
+    cycles: number;
+    /** the model loop alone, measured inside the harness (wall and CPU) */
+    seconds: number;
+    cpuSeconds: number;
+    cyclesPerSecond: number;
+    /** cyclesPerSecond against the ruleset clock: 1 = as fast as the real chip */
+    realTimeMultiple: number;
+    /** wall time of the verilator build and of the sandboxed run, as seen from outside */
+    buildMs: number;
+    runMs: number;
+  } | null;
   flash: FlashReport | null;
   /** 32×24 luma per frame, for comparing an uploaded capture (compare-video.server.ts) */
   referenceLuma: LumaSequence | null;
@@ -107,6 +118,8 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
       cpuSeconds: summary.cpuSeconds,
       cyclesPerSecond,
       realTimeMultiple: cyclesPerSecond / ruleset.clock.frequencyHz,
+      buildMs: outcome.run.compileMs,
+      runMs: outcome.run.runMs,
     },
   };
 
