@@ -1,5 +1,5 @@
 import { spawn } from "node:child_process";
-import { chownSync, existsSync, readdirSync, statSync } from "node:fs";
+import { chownSync, existsSync, lstatSync, readdirSync } from "node:fs";
 import { join } from "node:path";
 
 /**
@@ -46,14 +46,15 @@ export interface SandboxResult {
 
 const NOBODY = 65534;
 
+/** Hands the build folder to the sandbox user. Never follows links: a tool may have planted one pointing anywhere. */
 function chownTree(dir: string, uid: number): void {
   chownSync(dir, uid, uid);
   for (const name of readdirSync(dir)) {
     const p = join(dir, name);
-    const st = statSync(p, { throwIfNoEntry: false });
-    if (!st) continue;
+    const st = lstatSync(p, { throwIfNoEntry: false });
+    if (!st || st.isSymbolicLink()) continue;
     if (st.isDirectory()) chownTree(p, uid);
-    else chownSync(p, uid, uid);
+    else if (st.isFile()) chownSync(p, uid, uid);
   }
 }
 
@@ -120,7 +121,14 @@ export function runSandboxed(req: SandboxRequest): Promise<SandboxResult> {
     const timer = setTimeout(() => {
       timedOut = true;
       // The sandbox runs in its own process group (detached): kill all of it.
-      if (child.pid) process.kill(-child.pid, "SIGKILL");
+      // The group may have exited a moment ago; only a live group is killed.
+      if (child.pid && child.exitCode === null) {
+        try {
+          process.kill(-child.pid, "SIGKILL");
+        } catch (e) {
+          if ((e as NodeJS.ErrnoException).code !== "ESRCH") throw e;
+        }
+      }
     }, l.wallSeconds * 1000);
     child.on("error", (e) => {
       clearTimeout(timer);
