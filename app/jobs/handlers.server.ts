@@ -1,4 +1,6 @@
 import type PgBoss from "pg-boss";
+import { executeCheckRun } from "~/conformance/run.server";
+import { closeDueCompetitions } from "~/competitions/service.server";
 import { deliverOutboxMail, requeueStaleMail } from "~/mail/outbox.server";
 import { QUEUES } from "./queue.server";
 
@@ -9,5 +11,13 @@ export async function registerJobs(boss: PgBoss): Promise<void> {
   });
   await boss.work(QUEUES.mailSweep, async () => {
     await requeueStaleMail();
+  });
+  // competitions: the minute sweep closes every open compo whose deadline has come
+  await boss.work(QUEUES.deadlineSweep, async () => {
+    await closeDueCompetitions(new Date());
+  });
+  // One check run at a time per worker: each uses both cores for verilator builds. Add workers to scale.
+  await boss.work<{ checkRunId: string }>(QUEUES.checkRun, { batchSize: 1 }, async ([job]) => {
+    await executeCheckRun(job.data.checkRunId);
   });
 }
