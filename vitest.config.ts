@@ -5,7 +5,7 @@ import { fileURLToPath } from "node:url";
 export default defineConfig({
   resolve: { alias: { "~": fileURLToPath(new URL("./app", import.meta.url)) } },
   test: {
-    include: ["app/**/*.test.ts", "tests/integration/**/*.test.ts", "fakes/**/*.test.ts", "scripts/**/*.test.ts"],
+    include: ["app/**/*.test.ts", "tests/integration/**/*.test.ts", "fakes/**/*.test.ts", "scripts/**/*.test.ts", "demo/**/*.test.ts"],
     environment: "node",
     testTimeout: 60_000,
     hookTimeout: 120_000,

@@ -59,7 +59,8 @@ const MEDIA: Record<string, string> = {
 
 export async function runPipeline(input: PipelineInput): Promise<PipelineResult> {
   const { ruleset, workDir } = input;
-  mkdirSync(workDir, { recursive: true });
+  // Tools run as the sandbox user, who must be able to enter every folder they build in.
+  mkdirSync(join(workDir, "scratch"), { recursive: true, mode: 0o755 });
   const findings: Finding[] = [];
   const figures: Record<string, unknown> = {};
   const artifacts: PipelineArtifact[] = [];
@@ -116,7 +117,7 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
       const summary = await readLayoutFile(input.layoutPath, { collectPlacements: 20_000 });
       const checked = checkLayout(summary, ruleset);
       findings.push(...checked.findings);
-      figures.layout = checked.figures;
+      figures.layout = { ...checked.figures, topCells: summary.topCells, labels: summary.labels, instances: summary.instances, layers: summary.layers };
       const svgPath = join(workDir, "layout.svg");
       writeFileSync(svgPath, layoutPictureSvg(summary, ruleset, { dieUm: checked.figures.dieUm, title: summary.topCell ?? "layout" }));
       artifact("layout-svg", svgPath);
