@@ -19,6 +19,18 @@ export default [
   // JSON API
   route("api/auth/*", "routes/api.auth.ts"),
   route("api/me", "routes/api.me.ts"),
+  // organizer flows and the public rules page (app/competitions)
+  route("organize/events/new", "routes/organize.events.new.tsx"),
+  route("organize/events/:eventId", "routes/organize.events.$eventId.tsx"),
+  route("organize/events/:eventId/competitions/new", "routes/organize.events.$eventId.competitions.new.tsx"),
+  route("organize/:competitionId", "routes/organize.$competitionId.tsx"),
+  route("organize/:competitionId/edit", "routes/organize.$competitionId.edit.tsx"),
+  route("organize/:competitionId/ruleset.json", "routes/organize.$competitionId.ruleset[.]json.ts"),
+  route("organize/:competitionId/entries", "routes/organize.$competitionId.entries.tsx"),
+  route("organize/:competitionId/files/:fileId", "routes/organize.$competitionId.files.$fileId.ts"),
+  route("e/:eventSlug/:competitionSlug", "routes/e.$eventSlug.$competitionSlug.tsx"),
+  route("e/:eventSlug/:competitionSlug/calendar.ics", "routes/e.$eventSlug.$competitionSlug.calendar[.]ics.ts"),
+  // end of organizer flows
   // everything else
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -1,0 +1,37 @@
+import { describe, expect, it } from "vitest";
+import { DEMO_RULESET } from "~/conformance/ruleset";
+import { parseRulesetJson, rulesetJson } from "./ruleset-io";
+
+describe("ruleset JSON", () => {
+  it("round-trips the demo ruleset", () => {
+    const r = parseRulesetJson(rulesetJson(DEMO_RULESET));
+    expect(r.ok && r.ruleset).toEqual(DEMO_RULESET);
+  });
+
+  it("accepts a ruleset with only topModule and pins; the rest are the demo values", () => {
+    const r = parseRulesetJson(JSON.stringify({ topModule: "tiny_top", pins: [{ name: "clk", direction: "input", width: 1, role: "clock" }] }));
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.ruleset.topModule).toBe("tiny_top");
+    expect(r.ruleset.tile).toEqual(DEMO_RULESET.tile);
+    expect(r.ruleset.clock).toEqual(DEMO_RULESET.clock);
+    expect(r.ruleset.uploadLimits).toEqual(DEMO_RULESET.uploadLimits);
+  });
+
+  it("names each problem by its path", () => {
+    const bad = { ...DEMO_RULESET, pins: [{ ...DEMO_RULESET.pins[0], width: 0 }], tile: { ...DEMO_RULESET.tile, allowedShapes: ["3 by 1"] } };
+    const r = parseRulesetJson(JSON.stringify(bad));
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.issues.map((i) => i.path).sort()).toEqual(["pins.0.width", "tile.allowedShapes.0"]);
+  });
+
+  it("refuses patterns that do not compile, unknown video modes, repeated pins and broken JSON", () => {
+    const r = parseRulesetJson(JSON.stringify({ ...DEMO_RULESET, flipFlopPattern: "(df", forbiddenCellPatterns: ["ok", "[x"], videoMode: "vga-13h", pins: [DEMO_RULESET.pins[0], DEMO_RULESET.pins[0]] }));
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.issues.map((i) => i.path).sort()).toEqual(["flipFlopPattern", "forbiddenCellPatterns.1", "pins.1.name", "videoMode"]);
+    const j = parseRulesetJson("{ not json");
+    expect(!j.ok && j.errors[0]).toMatch(/not valid JSON/);
+  });
+});

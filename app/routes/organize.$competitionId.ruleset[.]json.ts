@@ -1,0 +1,17 @@
+import { requireOrganizerCompetition } from "~/competitions/access.server";
+import { rulesetJson } from "~/competitions/ruleset-io";
+import { storedRuleset } from "~/competitions/service.server";
+import type { Route } from "./+types/organize.$competitionId.ruleset[.]json";
+
+/** The stored ruleset as a JSON download (every default filled in), for organizers of the event. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { competition, event } = await requireOrganizerCompetition(request, params.competitionId);
+  const { ruleset } = storedRuleset(competition);
+  return new Response(rulesetJson(ruleset), {
+    headers: {
+      "Content-Type": "application/json; charset=utf-8",
+      "Content-Disposition": `attachment; filename="${event.slug}-${competition.slug}-ruleset-v${competition.rulesetVersion}.json"`,
+      "Cache-Control": "no-store",
+    },
+  });
+}

@@ -1,0 +1,38 @@
+import { parseWithZod } from "@conform-to/zod/v4";
+import { redirect, useActionData, useNavigation } from "react-router";
+import { requireUser } from "~/auth/guards.server";
+import { eventFormSchema } from "~/competitions/forms";
+import { createEvent } from "~/competitions/service.server";
+import { timeZoneNames } from "~/competitions/timezone";
+import { EventForm } from "~/competitions/ui/EventForm";
+import type { Route } from "./+types/organize.events.new";
+
+export const meta: Route.MetaFunction = () => [{ title: "New event · Gatecrash" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireUser(request);
+  return { timeZones: timeZoneNames() };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const submission = parseWithZod(await request.formData(), { schema: eventFormSchema });
+  if (submission.status !== "success") return submission.reply();
+  const saved = await createEvent(user.id, submission.value);
+  if (!saved.ok) return submission.reply({ fieldErrors: saved.fieldErrors });
+  return redirect(`/organize/events/${saved.value.id}`);
+}
+
+export default function NewEvent({ loaderData }: Route.ComponentProps) {
+  const lastResult = useActionData<typeof action>();
+  const nav = useNavigation();
+  return (
+    <div className="mx-auto max-w-3xl">
+      <p className="kicker">Organizer</p>
+      <h1 className="mb-6 mt-1 text-display font-extrabold">Announce an event</h1>
+      <EventForm lastResult={lastResult} defaultValue={{ timeZone: "Europe/Berlin" }} submitLabel="Create event" busy={nav.state !== "idle"} timeZones={loaderData.timeZones} />
+    </div>
+  );
+}
+
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/RouteErrorBoundary";
