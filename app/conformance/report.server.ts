@@ -1,37 +1,14 @@
 import { and, asc, desc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { artifacts, checkRuns, findings, uploads } from "~/db/schema";
+import type { EntryCheck } from "./report-types";
+
+export type { EntryCheck } from "./report-types";
 
 /**
  * The latest check run of an entry's counting upload (the newest complete, on-time one), with its findings and
  * artifacts. Artifacts are served through /artifacts/:id, which checks who may see them.
  */
-export interface EntryCheck {
-  uploadId: string;
-  uploadNumber: number;
-  run: {
-    id: string;
-    state: "queued" | "running" | "done" | "error";
-    step: string | null;
-    verdict: "pass" | "warn" | "fail" | null;
-    figures: Record<string, unknown>;
-    error: string | null;
-    queuedAt: string;
-    finishedAt: string | null;
-  } | null;
-  findings: {
-    step: string;
-    rule: string;
-    verdict: "pass" | "warn" | "fail";
-    title: string;
-    measured: string | null;
-    limit: string | null;
-    evidence: string | null;
-    advice: string | null;
-  }[];
-  artifacts: Record<string, { id: string; url: string; mediaType: string; sizeBytes: number }>;
-}
-
 export async function countingUpload(entryId: string): Promise<{ id: string; number: number } | null> {
   const [u] = await db()
     .select({ id: uploads.id, number: uploads.number })
