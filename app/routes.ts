@@ -31,6 +31,19 @@ export default [
   route("e/:eventSlug/:competitionSlug", "routes/e.$eventSlug.$competitionSlug.tsx"),
   route("e/:eventSlug/:competitionSlug/calendar.ics", "routes/e.$eventSlug.$competitionSlug.calendar[.]ics.ts"),
   // end of organizer flows
+  // entrant flows: crews, entries, fees, uploads (app/crews, app/entries, app/payments)
+  route("crews/new", "routes/crews.new.tsx"),
+  route("crews/:crewId", "routes/crews.$crewId.tsx"),
+  route("invites/:token", "routes/invites.$token.tsx"),
+  route("e/:eventSlug/:competitionSlug/enter", "routes/e.$eventSlug.$competitionSlug.enter.tsx"),
+  route("entries/:entryId", "routes/entries.$entryId.tsx"),
+  route("organize/:competitionId/entries/:entryId/refund", "routes/organize.$competitionId.entries.$entryId.refund.tsx"),
+  route("api/payments/webhook", "routes/api.payments.webhook.ts"),
+  route("api/entries/:entryId/uploads", "routes/api.entries.$entryId.uploads.ts"),
+  route("api/uploads/:uploadId", "routes/api.uploads.$uploadId.ts"),
+  route("api/uploads/:uploadId/files", "routes/api.uploads.$uploadId.files.ts"),
+  route("api/uploads/:uploadId/files/:fileId", "routes/api.uploads.$uploadId.files.$fileId.ts"),
+  // end of entrant flows
   // everything else
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

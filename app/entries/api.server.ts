@@ -1,0 +1,26 @@
+import { z } from "zod";
+import { apiError, apiJson } from "~/api/json.server";
+import { FILE_KINDS } from "./sniff";
+import type { Refusal } from "./uploads.server";
+
+/** Shapes of the upload JSON API (/api/entries/:entryId/uploads, /api/uploads/…) and its one error form. */
+export const claimedFileSchema = z.object({
+  kind: z.enum(FILE_KINDS),
+  filename: z.string().trim().min(1, "The file needs a name.").max(200),
+  size: z.number().int().min(0).max(Number.MAX_SAFE_INTEGER),
+});
+
+export const startUploadSchema = z.object({ files: z.array(claimedFileSchema).min(1, "Choose the files to upload.").max(4) });
+export const uploadActionSchema = z.object({ action: z.enum(["complete", "abandon"]) });
+export const fileActionSchema = z.discriminatedUnion("action", [
+  z.object({ action: z.literal("sign"), partNumbers: z.array(z.number().int()).min(1).max(100) }),
+  z.object({ action: z.literal("confirm") }),
+]);
+
+export function refusalResponse(r: Refusal): Response {
+  return apiError(r.status, r.code, r.message, r.fieldErrors);
+}
+
+export function okJson(body: unknown, status = 200): Response {
+  return apiJson(body, { status });
+}

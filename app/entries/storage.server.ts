@@ -1,0 +1,31 @@
+import { DeleteObjectCommand } from "@aws-sdk/client-s3";
+import { env } from "~/env.server";
+import * as base from "~/storage/s3.server";
+
+/**
+ * The S3 calls uploads need, over the shared wrapper (~/storage/s3.server). Aborting or deleting what is already
+ * gone is not an error here: a repeated discard or a racing sweep must not fail.
+ */
+export const { completeMultipart, hashObject, listParts, presignPart, startMultipart } = base;
+
+const gone = (e: unknown) => {
+  const name = (e as { name?: string }).name;
+  const status = (e as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode;
+  return name === "NoSuchUpload" || name === "NoSuchKey" || name === "NotFound" || status === 404;
+};
+
+export async function abortMultipart(key: string, uploadId: string): Promise<void> {
+  try {
+    await base.abortMultipart(key, uploadId);
+  } catch (e) {
+    if (!gone(e)) throw e;
+  }
+}
+
+export async function deleteObjectIfAny(key: string): Promise<void> {
+  try {
+    await base.s3().send(new DeleteObjectCommand({ Bucket: env().S3_BUCKET, Key: key }));
+  } catch (e) {
+    if (!gone(e)) throw e;
+  }
+}

@@ -1,0 +1,30 @@
+import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
+import { fileActionSchema, okJson, refusalResponse } from "~/entries/api.server";
+import { rulesetOf } from "~/entries/service.server";
+import { confirmFile, fileForUploader, signParts, storedParts } from "~/entries/uploads.server";
+import type { Route } from "./+types/api.uploads.$uploadId.files.$fileId";
+
+/**
+ * GET: the parts S3 already holds (resume). POST {action: "sign", partNumbers} → presigned part URLs;
+ * POST {action: "confirm"} → assemble and confirm the object (size, sniffed type, SHA-256). Crew members only.
+ */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireApiUser(request);
+  const f = await fileForUploader(params.uploadId, params.fileId, user.id);
+  if (!f) apiNotFound("That file");
+  return okJson({ id: f.file.id, state: f.file.state, rejectReason: f.file.rejectReason, parts: await storedParts(f.file) });
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireApiUser(request);
+  requireMethod(request, ["POST"]);
+  const f = await fileForUploader(params.uploadId, params.fileId, user.id);
+  if (!f) apiNotFound("That file");
+  const body = await parseJsonBody(request, fileActionSchema);
+  if (body.action === "sign") {
+    const out = await signParts(f.file, body.partNumbers);
+    return out.ok ? okJson({ urls: out.urls }) : refusalResponse(out);
+  }
+  const out = await confirmFile(f.file, rulesetOf(f.competition.ruleset));
+  return out.ok ? okJson({ file: out.file }) : refusalResponse(out);
+}

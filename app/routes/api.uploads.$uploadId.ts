@@ -1,0 +1,24 @@
+import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
+import { okJson, refusalResponse, uploadActionSchema } from "~/entries/api.server";
+import { abandonUpload, completeUpload, pendingUploadFiles, uploadForUploader } from "~/entries/uploads.server";
+import type { Route } from "./+types/api.uploads.$uploadId";
+
+/** GET: an upload's state and files (to resume). POST {action: complete | abandon}. Crew members only; others get 404. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireApiUser(request);
+  const up = await uploadForUploader(params.uploadId, user.id);
+  if (!up) apiNotFound("That upload");
+  return okJson({ uploadId: up.upload.id, entryId: up.entry.id, state: up.upload.state, files: await pendingUploadFiles(up.upload.id) });
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireApiUser(request);
+  requireMethod(request, ["POST"]);
+  const up = await uploadForUploader(params.uploadId, user.id);
+  if (!up) apiNotFound("That upload");
+  const body = await parseJsonBody(request, uploadActionSchema);
+  if (body.action === "abandon") return okJson({ abandoned: await abandonUpload(up.upload.id) });
+  const out = await completeUpload(up.upload.id, user.id);
+  if (!out.ok) return refusalResponse(out);
+  return okJson({ ...out.upload, already: out.already });
+}

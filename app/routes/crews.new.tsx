@@ -1,0 +1,50 @@
+import { getFormProps, useForm } from "@conform-to/react";
+import { parseWithZod } from "@conform-to/zod/v4";
+import { Form, redirect, useActionData, useNavigation } from "react-router";
+import { requireUser } from "~/auth/guards.server";
+import { FormErrors, FormField } from "~/components/FormField";
+import { crewFormSchema } from "~/crews/rules";
+import { createCrew } from "~/crews/service.server";
+import type { Route } from "./+types/crews.new";
+
+export const meta: Route.MetaFunction = () => [{ title: "New crew · Gatecrash" }];
+
+const safeNext = (next: string | null) => (next && next.startsWith("/") && !next.startsWith("//") ? next : null);
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireUser(request);
+  return { next: safeNext(new URL(request.url).searchParams.get("next")) };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const submission = parseWithZod(await request.formData(), { schema: crewFormSchema });
+  if (submission.status !== "success") return submission.reply();
+  const out = await createCrew(user.id, submission.value);
+  if (!out.ok) return submission.reply({ fieldErrors: { [out.field ?? "handle"]: [out.message] } });
+  const next = safeNext(new URL(request.url).searchParams.get("next"));
+  return redirect(next ?? `/crews/${out.value.id}`);
+}
+
+export default function NewCrew() {
+  const lastResult = useActionData<typeof action>();
+  const nav = useNavigation();
+  const [form, fields] = useForm({ lastResult, shouldValidate: "onBlur", onValidate: ({ formData }) => parseWithZod(formData, { schema: crewFormSchema }) });
+  return (
+    <div className="mx-auto max-w-md">
+      <p className="kicker">Entrant</p>
+      <h1 className="mb-2 mt-1 text-display font-extrabold">Start a crew</h1>
+      <p className="mb-6 text-ink-soft">A crew owns entries. You become its captain and can invite others by e-mail.</p>
+      <Form method="post" {...getFormProps(form)} className="card">
+        <FormErrors errors={form.errors} />
+        <FormField field={fields.name} label="Crew name" hint="Shown with your entries, e.g. Beam Chasers." />
+        <FormField field={fields.handle} label="Handle" hint="Unique, lowercase: letters, digits and dashes, e.g. beam-chasers." />
+        <button type="submit" className="btn-primary w-full justify-center" disabled={nav.state !== "idle"}>
+          Create crew
+        </button>
+      </Form>
+    </div>
+  );
+}
+
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/RouteErrorBoundary";

@@ -1,0 +1,150 @@
+import { data, Form, Link, redirect, useRevalidator } from "react-router";
+import { z } from "zod";
+import { requireUser } from "~/auth/guards.server";
+import { UploadCountdown } from "~/components/UploadCountdown";
+import { UploadList } from "~/components/UploadList";
+import { UploadPanel } from "~/components/UploadPanel";
+import { latestCheckFor } from "~/conformance/report.server";
+import { cutoffOf } from "~/entries/deadline";
+import { limitFor } from "~/entries/parts";
+import { entryForViewer, rulesetOf, uploadsOfEntry } from "~/entries/service.server";
+import { FILE_KINDS, type FileKind } from "~/entries/sniff";
+import { paymentsOfEntry, startCheckout } from "~/payments/service.server";
+import { formatMoney } from "~/payments/states";
+import type { Route } from "./+types/entries.$entryId";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.entry.title ?? "Entry"} · Gatecrash` }];
+
+async function load(request: Request, entryId: string) {
+  const user = await requireUser(request);
+  const row = await entryForViewer(entryId, user);
+  if (!row) throw data({ message: "This entry does not exist, or it is not yours to see." }, { status: 404 });
+  return { user, ...row };
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { entry, competition, event, crew, viewer } = await load(request, params.entryId);
+  const ruleset = rulesetOf(competition.ruleset);
+  const cutoff = cutoffOf(competition.deadlineAt, competition.graceMinutes);
+  const open = competition.state === "open" && entry.state === "active" && (!cutoff || cutoff > new Date());
+  const check = await latestCheckFor(entry.id);
+  const feeNotice = new URL(request.url).searchParams.get("fee");
+  return {
+    viewer: viewer.role,
+    entry: { id: entry.id, title: entry.title, description: entry.description, state: entry.state, feeState: entry.feeState, disqualifiedReason: entry.disqualifiedReason },
+    crew: { id: crew.id, name: crew.name, handle: crew.handle },
+    competition: { title: competition.title, state: competition.state, slug: competition.slug, fee: competition.feeAmount > 0 ? formatMoney(competition.feeAmount, competition.feeCurrency) : null },
+    event: { title: event.title, slug: event.slug, timeZone: event.timeZone },
+    cutoff: cutoff?.toISOString() ?? null,
+    graceMinutes: competition.graceMinutes,
+    open,
+    limits: Object.fromEntries(FILE_KINDS.map((k) => [k, limitFor(k, ruleset)])) as Record<FileKind, number>,
+    uploads: await uploadsOfEntry(entry.id),
+    payments: (await paymentsOfEntry(entry.id)).map((p) => ({ ...p, createdAt: p.createdAt.toISOString(), amountText: formatMoney(p.amount, p.currency) })),
+    check: check && { uploadNumber: check.uploadNumber, state: check.run?.state ?? null, verdict: check.run?.verdict ?? null, fails: check.findings.filter((f) => f.verdict === "fail").length, warns: check.findings.filter((f) => f.verdict === "warn").length },
+    feeNotice: feeNotice === "returned" || feeNotice === "cancelled" ? feeNotice : null,
+  };
+}
+
+const actionSchema = z.object({ intent: z.literal("pay") });
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { user, viewer, entry } = await load(request, params.entryId);
+  if (viewer.role !== "crew") throw data({ message: "Only the crew can pay its entry fee." }, { status: 403 });
+  const parsed = actionSchema.safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) throw data({ message: "Unknown action." }, { status: 400 });
+  const out = await startCheckout(entry.id, user);
+  if (!out.ok) return { error: out.message };
+  return redirect(out.url);
+}
+
+const FEE_TEXT: Record<string, { label: string; cls: string }> = {
+  not_required: { label: "No fee", cls: "bg-line text-ink-soft" },
+  unpaid: { label: "Fee unpaid", cls: "bg-warn-soft text-warn" },
+  pending: { label: "Payment open", cls: "bg-warn-soft text-warn" },
+  paid: { label: "Fee paid", cls: "bg-pass-soft text-pass" },
+  refunded: { label: "Fee refunded", cls: "bg-violet-soft text-violet" },
+};
+
+const VERDICT: Record<string, string> = { pass: "bg-pass-soft text-pass", warn: "bg-warn-soft text-warn", fail: "bg-fail-soft text-fail" };
+
+export default function EntryDashboard({ loaderData, actionData }: Route.ComponentProps) {
+  const d = loaderData;
+  const revalidator = useRevalidator();
+  const fee = FEE_TEXT[d.entry.feeState];
+  const crewView = d.viewer === "crew";
+  return (
+    <div>
+      <p className="kicker">
+        {d.event.title} · <Link to={`/e/${d.event.slug}/${d.competition.slug}`} className="underline">{d.competition.title}</Link>
+      </p>
+      <h1 className="mt-1 text-display font-extrabold">{d.entry.title}</h1>
+      <p className="mb-6 text-ink-soft">
+        by <Link to={crewView ? `/crews/${d.crew.id}` : "#"} className="font-semibold">{d.crew.name}</Link> (@{d.crew.handle})
+        {!crewView && <span className="ml-2 rounded-full bg-violet-soft px-2 py-0.5 text-xs font-semibold text-violet">Organizer view (read-only)</span>}
+      </p>
+
+      {/* CheckRunPanel */}
+
+      <div className="mb-6 grid gap-4 md:grid-cols-3">
+        <div className="card">
+          <p className="kicker">Entry</p>
+          <p className="mt-1 text-lg font-bold" data-testid="entry-state">{d.entry.state === "active" ? "Active" : d.entry.state}</p>
+          {d.entry.disqualifiedReason && <p className="text-sm text-fail">{d.entry.disqualifiedReason}</p>}
+          <p className="mt-2 text-sm text-ink-soft">
+            Latest check:{" "}
+            {d.check?.verdict ? (
+              <span className={`rounded-full px-2 py-0.5 text-xs font-semibold ${VERDICT[d.check.verdict]}`} data-testid="check-verdict">
+                {d.check.verdict} · upload #{d.check.uploadNumber} · {d.check.fails} fail, {d.check.warns} warn
+              </span>
+            ) : d.check ? (
+              <span data-testid="check-verdict">{d.check.state ?? "not queued"} (upload #{d.check.uploadNumber})</span>
+            ) : (
+              <span data-testid="check-verdict">no upload yet</span>
+            )}
+          </p>
+        </div>
+        <div className="card">
+          <p className="kicker">Entry fee</p>
+          <p className="mt-1 flex items-center gap-2">
+            <span className={`rounded-full px-2.5 py-0.5 text-xs font-semibold ${fee.cls}`} data-testid="fee-state">{fee.label}</span>
+            {d.competition.fee && <span className="font-semibold">{d.competition.fee}</span>}
+          </p>
+          {d.feeNotice === "returned" && d.entry.feeState !== "paid" && (
+            <p role="status" className="mt-2 text-sm text-ink-soft">Thanks — the payment is being confirmed. This page shows it once the payment service reports it.</p>
+          )}
+          {d.feeNotice === "cancelled" && d.entry.feeState !== "paid" && <p role="status" className="mt-2 text-sm text-ink-soft">The payment was cancelled; nothing was charged.</p>}
+          {actionData?.error && <p role="alert" className="field-error">{actionData.error}</p>}
+          {crewView && (d.entry.feeState === "unpaid" || d.entry.feeState === "pending") && (
+            <Form method="post" className="mt-3">
+              <input type="hidden" name="intent" value="pay" />
+              <button type="submit" className="btn-primary">Pay {d.competition.fee}</button>
+            </Form>
+          )}
+          <p className="mt-2 text-xs text-mute">Uploads do not wait for the payment. Fees, refunds and taxes follow local law; Gatecrash gives no legal advice.</p>
+        </div>
+        {d.cutoff ? (
+          <UploadCountdown cutoffIso={d.cutoff} eventTimeZone={d.event.timeZone} graceMinutes={d.graceMinutes} />
+        ) : (
+          <div className="card"><p className="kicker">Uploads close</p><p className="mt-1 text-ink-soft">No deadline set yet.</p></div>
+        )}
+      </div>
+
+      <div className="grid gap-6 lg:grid-cols-[1fr_1fr]">
+        <section aria-label="Upload">
+          {crewView && d.open ? (
+            <UploadPanel entryId={d.entry.id} limits={d.limits} onRecorded={() => void revalidator.revalidate()} />
+          ) : (
+            <div className="card text-ink-soft">{crewView ? "Uploads are closed for this entry." : "Organizers see the uploads; only the crew uploads."}</div>
+          )}
+        </section>
+        <section>
+          <h2 className="mb-3 text-lg font-bold">Uploads</h2>
+          <UploadList uploads={d.uploads} timeZone={d.event.timeZone} />
+        </section>
+      </div>
+    </div>
+  );
+}
+
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/RouteErrorBoundary";

@@ -1,0 +1,77 @@
+import { and, eq } from "drizzle-orm";
+import { data, Form, redirect } from "react-router";
+import { requireEventRole, requireUser } from "~/auth/guards.server";
+import { db } from "~/db/client.server";
+import { competitions, crews, entries } from "~/db/schema";
+import { paymentsOfEntry, refundEntryFee } from "~/payments/service.server";
+import { formatMoney } from "~/payments/states";
+import type { Route } from "./+types/organize.$competitionId.entries.$entryId.refund";
+
+export const meta: Route.MetaFunction = () => [{ title: "Refund entry fee · Gatecrash" }];
+
+/** The organizer of the competition's event only; an id from elsewhere is a 404 before anything else. */
+async function load(request: Request, competitionId: string, entryId: string) {
+  await requireUser(request);
+  const uuid = /^[0-9a-f-]{36}$/i;
+  const [c] = uuid.test(competitionId) ? await db().select().from(competitions).where(eq(competitions.id, competitionId)) : [];
+  if (!c) throw data({ message: "No such competition." }, { status: 404 });
+  const { user } = await requireEventRole(request, c.eventId, ["organizer"]);
+  const [row] = uuid.test(entryId)
+    ? await db()
+        .select({ entry: entries, crew: crews })
+        .from(entries)
+        .innerJoin(crews, eq(crews.id, entries.crewId))
+        .where(and(eq(entries.id, entryId), eq(entries.competitionId, c.id)))
+    : [];
+  if (!row) throw data({ message: "That entry is not in this competition." }, { status: 404 });
+  return { user, competition: c, ...row };
+}
+
+const safeBack = (v: FormDataEntryValue | null) => (typeof v === "string" && v.startsWith("/organize/") ? v : null);
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { competition, entry, crew } = await load(request, params.competitionId, params.entryId);
+  const ps = await paymentsOfEntry(entry.id);
+  return {
+    competition: { id: competition.id, title: competition.title },
+    entry: { id: entry.id, title: entry.title, feeState: entry.feeState },
+    crew: crew.name,
+    payments: ps.map((p) => ({ id: p.id, state: p.state, amount: formatMoney(p.amount, p.currency), refunded: formatMoney(p.refundedAmount, p.currency) })),
+    requested: new URL(request.url).searchParams.get("requested") === "1",
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { user, competition, entry } = await load(request, params.competitionId, params.entryId);
+  const form = await request.formData();
+  const out = await refundEntryFee(competition.id, entry.id, user.id);
+  if (!out.ok) return { error: out.message };
+  return redirect(safeBack(form.get("redirectTo")) ?? `/organize/${competition.id}/entries/${entry.id}/refund?requested=1`);
+}
+
+export default function Refund({ loaderData, actionData }: Route.ComponentProps) {
+  const d = loaderData;
+  const paid = d.payments.find((p) => p.state === "paid" || p.state === "partially_refunded");
+  return (
+    <div className="mx-auto max-w-lg">
+      <p className="kicker">Organizer · {d.competition.title}</p>
+      <h1 className="mb-4 mt-1 text-display font-extrabold">Refund the entry fee</h1>
+      <p className="mb-4 text-ink-soft">
+        {d.entry.title} by {d.crew}. Fee state: <strong data-testid="fee-state">{d.entry.feeState}</strong>
+      </p>
+      {d.requested && <p role="status" className="card mb-4">Refund requested. The fee state changes once the payment service confirms it.</p>}
+      {actionData?.error && <p role="alert" className="field-error mb-4">{actionData.error}</p>}
+      {paid ? (
+        <Form method="post" className="card">
+          <p className="mb-4">Refund {paid.amount} to the crew's payment method. This cannot be undone.</p>
+          <button type="submit" className="btn-signal">Refund {paid.amount}</button>
+        </Form>
+      ) : (
+        <p className="card text-ink-soft">There is no paid fee to refund.</p>
+      )}
+      <p className="mt-4 text-xs text-mute">Fees, refunds and taxes follow local law; Gatecrash gives no legal advice.</p>
+    </div>
+  );
+}
+
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/RouteErrorBoundary";
