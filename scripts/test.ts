@@ -47,6 +47,7 @@ async function main(): Promise<number> {
       TEST_PG_DATA: cluster.dataDir,
       TEST_PG_PORT: String(cluster.port),
       TEST_ROOT: root,
+      GATECRASH_BUILD_DIR: join(root, "build"),
     };
     const fakes = await startStack({ ports, dataDir: join(root, "data"), env, services: ["s3", "mail", "payments"], quiet: true });
     stops.push(fakes.stop);

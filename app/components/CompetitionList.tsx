@@ -13,7 +13,8 @@ export interface CompetitionListItem {
 }
 
 export function formatInZone(iso: string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone, timeZoneName: "short" }).format(new Date(iso));
+  // dateStyle cannot be combined with timeZoneName, so the fields are spelled out.
+  return new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", timeZone, timeZoneName: "short" }).format(new Date(iso));
 }
 
 export function CompetitionList({ items, linkTo }: { items: CompetitionListItem[]; linkTo: (c: CompetitionListItem) => string }) {

@@ -92,7 +92,7 @@ export async function startStack(opts: StackOptions): Promise<{ procs: Proc[]; s
       startProc(
         "web",
         process.execPath,
-        ["node_modules/@react-router/serve/bin.js", "build/server/index.js"],
+        ["node_modules/@react-router/serve/bin.js", `${env.GATECRASH_BUILD_DIR ?? "build"}/server/index.js`],
         { ...env, NODE_ENV: "production", PORT: String(ports.web), HOST: "127.0.0.1" },
         q,
       ),
