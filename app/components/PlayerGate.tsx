@@ -1,0 +1,89 @@
+import { useId, useState } from "react";
+
+/**
+ * Every player sits behind this gate: the photosensitivity warning with the entry's flash-check result.
+ * Nothing loads (no video element exists) until the viewer accepts.
+ */
+export interface PlayerSource {
+  src: string;
+  type: string;
+}
+
+export function PlayerGate({
+  label,
+  sources,
+  poster,
+  flashVerdict,
+  flashStatement,
+  notReady = "Reference capture not ready yet: Gatecrash renders it when the check run finishes.",
+  tone = "light",
+  autoPlay = false,
+}: {
+  label: string;
+  sources: PlayerSource[];
+  poster?: string | null;
+  flashVerdict: "pass" | "warn" | "fail" | null;
+  flashStatement: string;
+  notReady?: string;
+  tone?: "light" | "dark";
+  autoPlay?: boolean;
+}) {
+  const [accepted, setAccepted] = useState(false);
+  const headingId = useId();
+  const flagged = flashVerdict !== "pass";
+  if (sources.length === 0) {
+    return (
+      <div className={`rounded-lg border border-dashed p-6 text-sm ${tone === "dark" ? "border-white/30 text-white/80" : "border-line text-mute"}`} data-testid="player-not-ready">
+        <p className="font-semibold">{label}</p>
+        <p className="mt-1">{notReady}</p>
+      </div>
+    );
+  }
+  if (!accepted) {
+    return (
+      <section
+        aria-labelledby={headingId}
+        data-testid="photosensitivity-gate"
+        className={`rounded-lg border-2 p-5 ${flagged ? "border-fail bg-fail-soft text-ink" : "border-warn bg-warn-soft text-ink"}`}
+      >
+        <h3 id={headingId} className="font-extrabold">
+          Photosensitivity warning — {label}
+        </h3>
+        <p className="mt-2 text-sm">
+          This capture may contain flashing lights and fast-changing patterns. If you or anyone watching has photosensitive
+          epilepsy or is sensitive to flashing, do not play it.
+        </p>
+        <p className="mt-2 text-sm font-semibold" data-testid="flash-statement">
+          {flashStatement}
+        </p>
+        <AudioCaution className="mt-2 text-sm" />
+        <button type="button" className="btn-primary mt-4" onClick={() => setAccepted(true)}>
+          I understand — load and play
+        </button>
+      </section>
+    );
+  }
+  return (
+    <figure>
+      <video controls autoPlay={autoPlay} playsInline preload="metadata" poster={poster ?? undefined} className="w-full rounded-lg bg-black" aria-label={label} data-testid="player-video">
+        {sources.map((s) => (
+          <source key={s.src} src={s.src} type={s.type} />
+        ))}
+        Your browser cannot play this video.
+      </video>
+      <figcaption className={`mt-1 text-xs ${tone === "dark" ? "text-white/70" : "text-mute"}`}>
+        {label} · {flashStatement}
+      </figcaption>
+    </figure>
+  );
+}
+
+/** The caution beside any audio from a 1-bit PWM pin. */
+export function AudioCaution({ className = "" }: { className?: string }) {
+  return (
+    <p className={className} data-testid="audio-caution">
+      <strong>Audio caution:</strong> the sound comes from a 1-bit PWM pin, a full-scale square wave with a DC offset. Listen through a
+      low-pass filter and a coupling capacitor, and start at low volume.
+    </p>
+  );
+}

@@ -1,0 +1,222 @@
+import { useCallback, useEffect, useRef, useState } from "react";
+import type { StageScreen } from "~/stage/screens";
+import { ShowcaseStats } from "./ShowcaseStats";
+
+/**
+ * Stage mode for the big screen: dark, large type, driven by the keyboard.
+ * → / Space / PageDown next · ← / PageUp previous · Home first · End last · F full screen · Enter plays the capture
+ * (after the on-screen photosensitivity warning).
+ */
+export function StageDeck({ screens, exitHref }: { screens: StageScreen[]; exitHref: string }) {
+  const [i, setI] = useState(() => {
+    if (typeof window === "undefined") return 0;
+    const n = Number(window.location.hash.replace("#", "")) - 1;
+    return Number.isInteger(n) && n >= 0 && n < screens.length ? n : 0;
+  });
+  const [playing, setPlaying] = useState(false);
+  const root = useRef<HTMLDivElement>(null);
+  const go = useCallback(
+    (n: number) => {
+      const next = Math.max(0, Math.min(screens.length - 1, n));
+      setI(next);
+      setPlaying(false);
+      window.history.replaceState(null, "", `#${next + 1}`);
+    },
+    [screens.length],
+  );
+
+  useEffect(() => {
+    root.current?.focus();
+  }, []);
+
+  useEffect(() => {
+    function onKey(ev: KeyboardEvent) {
+      if (ev.altKey || ev.ctrlKey || ev.metaKey) return;
+      const t = ev.target as HTMLElement | null;
+      if (t && t.tagName === "A") return;
+      switch (ev.key) {
+        case "ArrowRight":
+        case "PageDown":
+        case " ":
+          ev.preventDefault();
+          go(i + 1);
+          break;
+        case "ArrowLeft":
+        case "PageUp":
+          ev.preventDefault();
+          go(i - 1);
+          break;
+        case "Home":
+          ev.preventDefault();
+          go(0);
+          break;
+        case "End":
+          ev.preventDefault();
+          go(screens.length - 1);
+          break;
+        case "f":
+        case "F":
+          ev.preventDefault();
+          if (document.fullscreenElement) void document.exitFullscreen();
+          else void root.current?.requestFullscreen?.();
+          break;
+        case "Enter":
+          if (screens[i]?.kind === "entry") {
+            ev.preventDefault();
+            setPlaying(true);
+          }
+          break;
+      }
+    }
+    window.addEventListener("keydown", onKey);
+    return () => window.removeEventListener("keydown", onKey);
+  }, [go, i, screens]);
+
+  const s = screens[i];
+  return (
+    <div
+      ref={root}
+      tabIndex={-1}
+      className="fixed inset-0 z-50 flex flex-col overflow-hidden bg-[#0e0b16] text-white outline-none"
+      style={{ backgroundImage: "radial-gradient(circle at 85% 10%, rgba(217,72,15,.22), transparent 45%), radial-gradient(circle at 5% 95%, rgba(95,61,196,.25), transparent 40%)" }}
+      data-testid="stage"
+      aria-roledescription="presentation"
+      aria-label="Stage mode"
+    >
+      <div className="flex items-center justify-between px-10 pt-6 text-sm font-semibold tracking-[0.3em] text-white/50">
+        <span>
+          <span className="text-[#ff7a3d]">GATECRASH</span> · STAGE
+        </span>
+        <span data-testid="stage-counter">
+          {i + 1} / {screens.length}
+        </span>
+      </div>
+      <section className="flex flex-1 items-center justify-center px-16 py-8" aria-live="polite" data-testid={`stage-screen-${s.kind}`}>
+        <Screen s={s} playing={playing} onPlay={() => setPlaying(true)} />
+      </section>
+      <div className="flex items-center justify-between px-10 pb-5 text-xs text-white/40">
+        <span>→ / Space next · ← back · Home start · F full screen{s.kind === "entry" ? " · Enter play" : ""}</span>
+        <a href={exitHref} className="underline hover:text-white">
+          Leave stage mode
+        </a>
+      </div>
+    </div>
+  );
+}
+
+function Screen({ s, playing, onPlay }: { s: StageScreen; playing: boolean; onPlay: () => void }) {
+  switch (s.kind) {
+    case "intro":
+      return (
+        <div className="max-w-5xl text-center">
+          <p className="text-2xl font-semibold uppercase tracking-[0.35em] text-[#ff7a3d]">{s.eventTitle}</p>
+          <h1 className="mt-6 text-8xl font-extrabold leading-none">{s.title}</h1>
+          <p className="mx-auto mt-8 max-w-3xl text-3xl text-white/80">{s.description}</p>
+          <p className="mt-10 text-2xl text-white/60">
+            {s.entryCount} entries on the big screen{s.skipped ? ` · ${s.skipped} flagged by the flash check and left out` : ""}
+          </p>
+        </div>
+      );
+    case "entry":
+      return (
+        <div className={`grid w-full max-w-[110rem] grid-cols-[3fr_2fr] items-center gap-12`}>
+          <div className="relative">
+            {s.dimmed && (
+              <div role="alert" className="mb-4 rounded-lg border-4 border-[#ff4f7b] bg-[#3a0d1e] px-6 py-4 text-2xl font-extrabold text-[#ffd1dd]" data-testid="stage-flash-warning">
+                ⚠ Flash warning — {s.flash.statement} Shown dimmed.
+              </div>
+            )}
+            {!s.video ? (
+              <div className="flex aspect-[4/3] items-center justify-center rounded-xl border-2 border-dashed border-white/30 text-3xl text-white/60" data-testid="player-not-ready">
+                Reference capture not ready yet
+              </div>
+            ) : playing ? (
+              <video
+                key={s.video.src}
+                autoPlay
+                loop
+                playsInline
+                poster={s.poster ?? undefined}
+                className={`aspect-[4/3] w-full rounded-xl bg-black ${s.dimmed ? "opacity-40 saturate-50" : ""}`}
+                style={{ imageRendering: "pixelated" }}
+                data-testid="stage-video"
+              >
+                <source src={s.video.src} type={s.video.type} />
+              </video>
+            ) : (
+              <div className="flex aspect-[4/3] flex-col items-center justify-center gap-5 rounded-xl border-2 border-[#ffb020] bg-[#2a1e05] p-10 text-center" data-testid="photosensitivity-gate">
+                <p className="text-3xl font-extrabold text-[#ffd37a]">Photosensitivity warning</p>
+                <p className="text-2xl text-white/85">This capture may flash. Look away if flashing lights affect you.</p>
+                <p className="text-2xl font-semibold text-white" data-testid="flash-statement">{s.flash.statement}</p>
+                <p className="text-lg text-white/60">Audio is a 1-bit PWM pin: through a low-pass filter, at low volume.</p>
+                <button type="button" onClick={onPlay} className="rounded-lg bg-[#ff7a3d] px-6 py-3 text-2xl font-extrabold text-[#0e0b16]">
+                  Play (Enter)
+                </button>
+              </div>
+            )}
+          </div>
+          <div>
+            <p className="text-3xl font-semibold text-[#ff7a3d]">
+              Entry {s.position} of {s.total}
+            </p>
+            <h2 className="mt-3 text-7xl font-extrabold leading-tight" data-testid="stage-entry-title">{s.title}</h2>
+            <p className="mt-4 text-4xl text-white/80">{s.crew ? `by ${s.crew}` : "crew revealed with the results"}</p>
+            <div className="mt-10 text-3xl">
+              <ShowcaseStats stats={s.stats} tone="dark" compact />
+            </div>
+          </div>
+        </div>
+      );
+    case "vote":
+      return (
+        <div className="flex items-center gap-20">
+          <div className="rounded-2xl bg-white p-6" data-testid="stage-qr" role="img" aria-label={`QR code for ${s.url}`} dangerouslySetInnerHTML={{ __html: s.qrSvg.replace("<svg ", '<svg width="420" height="420" ') }} />
+          <div className="max-w-3xl">
+            <p className="text-3xl font-semibold uppercase tracking-[0.3em] text-[#ff7a3d]">Vote now</p>
+            <h2 className="mt-4 text-8xl font-extrabold leading-none">Your turn.</h2>
+            <p className="mt-8 break-all font-mono text-4xl text-white">{s.url}</p>
+            <p className="mt-6 text-3xl text-white/70">
+              {s.method === "points" ? "Give every entry 0–5 points." : "Rank the entries, favourite first."} Sign in, or use the code on your slip.
+              {s.closesAt ? ` Voting closes ${new Date(s.closesAt).toLocaleString("en-GB", { timeZone: s.timeZone, weekday: "long", hour: "2-digit", minute: "2-digit" })}.` : ""}
+            </p>
+          </div>
+        </div>
+      );
+    case "reveal-intro":
+      return (
+        <div className="text-center">
+          <p className="text-3xl font-semibold uppercase tracking-[0.35em] text-[#ff7a3d]">The results</p>
+          <h2 className="mt-6 text-8xl font-extrabold">From last place to first</h2>
+          <p className="mt-8 text-3xl text-white/60">{s.entryCount} entries · published version {s.version}</p>
+        </div>
+      );
+    case "reveal":
+      return (
+        <div className="text-center" data-testid="stage-reveal">
+          <p className={`font-extrabold leading-none tabular-nums ${s.place === 1 ? "text-[14rem] text-[#ff7a3d]" : "text-[10rem] text-white/90"}`}>
+            {s.place}
+            {s.tied ? "=" : ""}
+            <span className="align-top text-5xl">{ordinal(s.place)}</span>
+          </p>
+          <h2 className="mt-4 text-7xl font-extrabold">{s.title}</h2>
+          <p className="mt-4 text-4xl text-white/80">by {s.crew}</p>
+          <p className="mt-8 text-2xl text-white/50 tabular-nums">
+            mixed {s.mixed.toFixed(3)} · jury {s.juryScore === null ? "—" : s.juryScore.toFixed(3)} · audience {s.audienceScore === null ? "—" : s.audienceScore.toFixed(2)}
+          </p>
+        </div>
+      );
+    case "end":
+      return (
+        <div className="text-center">
+          <h2 className="text-8xl font-extrabold">Thank you</h2>
+          <p className="mt-6 text-3xl text-white/60">{s.title} — on Gatecrash</p>
+        </div>
+      );
+  }
+}
+
+function ordinal(n: number): string {
+  const t = n % 100;
+  if (t >= 11 && t <= 13) return "th";
+  return ["th", "st", "nd", "rd"][n % 10] ?? "th";
+}

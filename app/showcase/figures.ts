@@ -1,0 +1,79 @@
+/**
+ * Reading the public figures of a check run (app/conformance writes them as loose JSON per step). Everything
+ * here is defensive: a step that has not run, or wrote an older shape, gives null and the page says "not measured".
+ */
+
+export type FlashVerdict = "pass" | "warn" | "fail";
+
+export interface FlashSummary {
+  /** null: the flash check has not measured this entry (yet). */
+  verdict: FlashVerdict | null;
+  /** Flashes in the worst one-second window, when measured. */
+  worstSecondFlashes: number | null;
+  /** One sentence for the warning box. */
+  statement: string;
+}
+
+export interface PublicStats {
+  flipFlops: number | null;
+  cells: number | null;
+  sourceLines: number | null;
+  tileShape: string | null;
+  tileSizeUm: { width: number; height: number } | null;
+  /** Placed-cell area over die area, 0..1. */
+  utilization: number | null;
+}
+
+type Json = Record<string, unknown>;
+
+function obj(v: unknown): Json | null {
+  return typeof v === "object" && v !== null && !Array.isArray(v) ? (v as Json) : null;
+}
+function num(v: unknown): number | null {
+  return typeof v === "number" && Number.isFinite(v) ? v : null;
+}
+function str(v: unknown): string | null {
+  return typeof v === "string" && v.length > 0 ? v : null;
+}
+
+export function flashSummary(figures: Record<string, unknown> | null | undefined): FlashSummary {
+  const flash = obj(figures?.flash);
+  if (!flash) return { verdict: null, worstSecondFlashes: null, statement: "Flash check: not measured yet." };
+  const raw = flash.verdict;
+  let verdict: FlashVerdict | null = raw === "pass" || raw === "warn" || raw === "fail" ? raw : null;
+  if (verdict === null && typeof flash.passes === "boolean") verdict = flash.passes ? "pass" : "warn";
+  const worst =
+    num(flash.worstSecondFlashes) ??
+    (() => {
+      const g = num(obj(flash.general)?.worstFlashes);
+      const r = num(obj(flash.red)?.worstFlashes);
+      return g === null && r === null ? null : Math.max(g ?? 0, r ?? 0);
+    })();
+  if (verdict === null) return { verdict: null, worstSecondFlashes: worst, statement: "Flash check: not measured yet." };
+  const perSecond = worst === null ? "" : ` (worst second: ${worst} flash${worst === 1 ? "" : "es"})`;
+  const statement =
+    verdict === "pass"
+      ? `Flash check: passed — within the WCAG 2.2 general and red flash thresholds${perSecond}.`
+      : `Flash check: FLAGGED — this entry flashes more than three times a second${perSecond}.`;
+  return { verdict, worstSecondFlashes: worst, statement };
+}
+
+/** True when stage mode must treat the entry as flagged: anything but a measured pass. */
+export function isFlashFlagged(f: FlashSummary): boolean {
+  return f.verdict !== "pass";
+}
+
+export function publicStats(figures: Record<string, unknown> | null | undefined): PublicStats {
+  const source = obj(figures?.source);
+  const layout = obj(figures?.layout);
+  const width = num(layout?.widthUm);
+  const height = num(layout?.heightUm);
+  return {
+    flipFlops: num(source?.flipFlops) ?? num(layout?.flipFlops),
+    cells: num(source?.cells),
+    sourceLines: num(source?.sourceLines) ?? num(source?.lines),
+    tileShape: str(layout?.matchedShape),
+    tileSizeUm: width !== null && height !== null ? { width, height } : null,
+    utilization: num(layout?.utilization),
+  };
+}

@@ -1,0 +1,220 @@
+import { createHash } from "node:crypto";
+import { and, desc, eq, inArray } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { competitions, crews, entries, events, uploadFiles, uploads } from "~/db/schema";
+import { checkOfUpload } from "~/conformance/report.server";
+import { flashSummary, publicStats, type FlashSummary, type PublicStats } from "./figures";
+
+/**
+ * The public showcase: what anyone may see of a competition's entries once entries have closed.
+ * Only public fields leave this module — never files' storage keys, e-mails, scores or notes.
+ */
+
+export const SHOWCASE_STATES = ["closed", "judging", "results"] as const;
+type CompetitionState = (typeof competitions.$inferSelect)["state"];
+
+export interface PublicCompetition {
+  id: string;
+  eventId: string;
+  eventSlug: string;
+  eventTitle: string;
+  timeZone: string;
+  slug: string;
+  title: string;
+  description: string;
+  state: CompetitionState;
+  ballotMethod: "points" | "borda" | "schulze";
+  votingOpensAt: string | null;
+  votingClosesAt: string | null;
+  /** Crews are hidden while judging is blind and results are not out. */
+  crewsHidden: boolean;
+  stageFlashMode: "dim" | "skip";
+}
+
+export interface ShowcaseMedia {
+  still: string | null;
+  firstFrame: string | null;
+  contactSheet: string | null;
+  referenceWebm: string | null;
+  referenceMp4: string | null;
+  referenceAudio: string | null;
+  waveform: string | null;
+  layoutPicture: string | null;
+  /** The entrant's own capture video, streamed through the showcase. */
+  captureVideo: string | null;
+  captureMediaType: string | null;
+}
+
+export interface ShowcaseEntry {
+  id: string;
+  title: string;
+  description: string;
+  crew: string | null;
+  /** 1-based place in the shared presentation order. */
+  position: number;
+  check: { state: "none" | "queued" | "running" | "done" | "error"; verdict: "pass" | "warn" | "fail" | null };
+  flash: FlashSummary;
+  stats: PublicStats;
+  media: ShowcaseMedia;
+  /** True once the reference capture video exists. */
+  referenceReady: boolean;
+}
+
+type CompetitionRow = typeof competitions.$inferSelect;
+
+function toPublic(c: CompetitionRow, e: typeof events.$inferSelect): PublicCompetition {
+  return {
+    id: c.id,
+    eventId: e.id,
+    eventSlug: e.slug,
+    eventTitle: e.title,
+    timeZone: e.timeZone,
+    slug: c.slug,
+    title: c.title,
+    description: c.description,
+    state: c.state,
+    ballotMethod: c.ballotMethod,
+    votingOpensAt: c.votingOpensAt?.toISOString() ?? null,
+    votingClosesAt: c.votingClosesAt?.toISOString() ?? null,
+    crewsHidden: c.blindJudging && c.state !== "results",
+    stageFlashMode: c.stageFlashMode === "skip" ? "skip" : "dim",
+  };
+}
+
+/** A competition by its public address, in any state past draft; null when there is none. */
+export async function competitionBySlugs(eventSlug: string, competitionSlug: string): Promise<PublicCompetition | null> {
+  const [row] = await db()
+    .select({ c: competitions, e: events })
+    .from(competitions)
+    .innerJoin(events, eq(events.id, competitions.eventId))
+    .where(and(eq(events.slug, eventSlug), eq(competitions.slug, competitionSlug)));
+  if (!row || row.c.state === "draft") return null;
+  return toPublic(row.c, row.e);
+}
+
+export async function competitionById(competitionId: string): Promise<PublicCompetition | null> {
+  if (!isUuid(competitionId)) return null;
+  const [row] = await db()
+    .select({ c: competitions, e: events })
+    .from(competitions)
+    .innerJoin(events, eq(events.id, competitions.eventId))
+    .where(eq(competitions.id, competitionId));
+  return row ? toPublic(row.c, row.e) : null;
+}
+
+export function isUuid(s: string | undefined): s is string {
+  return typeof s === "string" && /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
+}
+
+export function showcaseIsOpen(c: Pick<PublicCompetition, "state">): boolean {
+  return (SHOWCASE_STATES as readonly string[]).includes(c.state);
+}
+
+/** Shared presentation order: a stable shuffle by the competition's order seed (same for everyone). */
+export function presentationKey(seed: string, entryId: string): string {
+  return createHash("sha256").update(`${seed}:${entryId}`).digest("hex");
+}
+
+interface EligibleEntry {
+  id: string;
+  title: string;
+  description: string;
+  crewName: string;
+  uploadId: string;
+  uploadNumber: number;
+}
+
+/**
+ * The entries that count: active (never disqualified or withdrawn) with a counting upload, in presentation order.
+ * Used by the showcase, the vote, the results and stage mode alike.
+ */
+export async function eligibleEntries(competitionId: string): Promise<EligibleEntry[]> {
+  const [comp] = await db().select({ seed: competitions.orderSeed }).from(competitions).where(eq(competitions.id, competitionId));
+  if (!comp) return [];
+  const rows = await db()
+    .select({ id: entries.id, title: entries.title, description: entries.description, crewName: crews.name })
+    .from(entries)
+    .innerJoin(crews, eq(crews.id, entries.crewId))
+    .where(and(eq(entries.competitionId, competitionId), eq(entries.state, "active")));
+  if (rows.length === 0) return [];
+  const ups = await db()
+    .select({ id: uploads.id, entryId: uploads.entryId, number: uploads.number })
+    .from(uploads)
+    .where(and(inArray(uploads.entryId, rows.map((r) => r.id)), eq(uploads.state, "complete")))
+    .orderBy(desc(uploads.number));
+  const counting = new Map<string, { id: string; number: number }>();
+  for (const u of ups) if (!counting.has(u.entryId)) counting.set(u.entryId, { id: u.id, number: u.number });
+  return rows
+    .filter((r) => counting.has(r.id))
+    .map((r) => ({ ...r, uploadId: counting.get(r.id)!.id, uploadNumber: counting.get(r.id)!.number }))
+    .sort((a, b) => presentationKey(comp.seed, a.id).localeCompare(presentationKey(comp.seed, b.id)));
+}
+
+export function mediaPath(c: Pick<PublicCompetition, "eventSlug" | "slug">, entryId: string, kind: "video" | "still"): string {
+  return `/e/${c.eventSlug}/${c.slug}/entries/${entryId}/media/${kind}`;
+}
+
+async function describe(c: PublicCompetition, e: EligibleEntry, position: number): Promise<ShowcaseEntry> {
+  const check = await checkOfUpload(e.uploadId, e.uploadNumber);
+  const files = await db()
+    .select({ kind: uploadFiles.kind, mediaType: uploadFiles.mediaType })
+    .from(uploadFiles)
+    .where(and(eq(uploadFiles.uploadId, e.uploadId), eq(uploadFiles.state, "confirmed"), inArray(uploadFiles.kind, ["video", "still"])));
+  const video = files.find((f) => f.kind === "video");
+  const still = files.find((f) => f.kind === "still");
+  const a = check.artifacts;
+  const url = (kind: string) => a[kind]?.url ?? null;
+  const figures = check.run?.state === "done" ? check.run.figures : (check.run?.figures ?? {});
+  return {
+    id: e.id,
+    title: e.title,
+    description: e.description,
+    crew: c.crewsHidden ? null : e.crewName,
+    position,
+    check: { state: check.run?.state ?? "none", verdict: check.run?.verdict ?? null },
+    flash: flashSummary(figures),
+    stats: publicStats(figures),
+    media: {
+      still: still ? mediaPath(c, e.id, "still") : null,
+      firstFrame: url("first-frame"),
+      contactSheet: url("contact-sheet"),
+      referenceWebm: url("webm"),
+      referenceMp4: url("mp4"),
+      referenceAudio: url("wav"),
+      waveform: url("waveform"),
+      layoutPicture: url("layout-svg") ?? url("layout-png"),
+      captureVideo: video ? mediaPath(c, e.id, "video") : null,
+      captureMediaType: video?.mediaType ?? null,
+    },
+    referenceReady: Boolean(a.webm || a.mp4),
+  };
+}
+
+/** Every showcase entry of a competition, in presentation order. */
+export async function showcaseEntries(c: PublicCompetition): Promise<ShowcaseEntry[]> {
+  const list = await eligibleEntries(c.id);
+  return Promise.all(list.map((e, i) => describe(c, e, i + 1)));
+}
+
+export async function showcaseEntry(c: PublicCompetition, entryId: string): Promise<ShowcaseEntry | null> {
+  const list = await eligibleEntries(c.id);
+  const i = list.findIndex((e) => e.id === entryId);
+  return i < 0 ? null : describe(c, list[i], i + 1);
+}
+
+/** The storage key of an eligible entry's capture video or still, for streaming; null when not public. */
+export async function publicMediaFile(
+  c: PublicCompetition,
+  entryId: string,
+  kind: "video" | "still",
+): Promise<{ s3Key: string; mediaType: string; sizeBytes: number | null } | null> {
+  if (!showcaseIsOpen(c)) return null;
+  const e = (await eligibleEntries(c.id)).find((x) => x.id === entryId);
+  if (!e) return null;
+  const [f] = await db()
+    .select({ s3Key: uploadFiles.s3Key, mediaType: uploadFiles.mediaType, sizeBytes: uploadFiles.sizeBytes })
+    .from(uploadFiles)
+    .where(and(eq(uploadFiles.uploadId, e.uploadId), eq(uploadFiles.kind, kind), eq(uploadFiles.state, "confirmed")));
+  if (!f) return null;
+  return { s3Key: f.s3Key, mediaType: f.mediaType ?? (kind === "video" ? "video/webm" : "image/png"), sizeBytes: f.sizeBytes };
+}
