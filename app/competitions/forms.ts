@@ -262,8 +262,17 @@ export function competitionFormSchema(timeZone: string) {
       pinNames.forEach((n, i) => {
         if (pinNames.indexOf(n) !== i) ctx.addIssue({ code: "custom", path: ["ruleset", "pins", i, "name"], message: "Two pins have this name." });
       });
+      // Backstop: the stored schema must accept what the form built (only when the form's own checks passed,
+      // so one mistake is never reported twice); its paths are mapped back to the form's field names.
+      if (!rulesetFormSchema.safeParse(v.ruleset).success) return;
       const r = rulesetSchema.safeParse(rulesetFromForm(v.ruleset));
-      if (!r.success) for (const issue of r.error.issues) ctx.addIssue({ code: "custom", path: ["ruleset", ...issue.path.map((p) => (typeof p === "symbol" ? String(p) : p))], message: issue.message });
+      if (!r.success)
+        for (const issue of r.error.issues) {
+          const path = issue.path.map((p) => (typeof p === "symbol" ? String(p) : p));
+          if (path[0] === "tile" && path[1] === "allowedShapes") path.splice(1, path.length - 1, "shapes");
+          if (path[0] === "uploadLimits" && typeof path[1] === "string") path[1] = path[1].replace(/Bytes$/, "MiB");
+          ctx.addIssue({ code: "custom", path: ["ruleset", ...path], message: issue.message });
+        }
     });
 }
 export type CompetitionForm = z.infer<ReturnType<typeof competitionFormSchema>>;

@@ -63,3 +63,11 @@ describe("time zone helpers", () => {
     expect(zoneOffsetMinutes(new Date("2027-07-01T00:00:00Z"), "Europe/Berlin")).toBe(120);
   });
 });
+
+describe("formatInZone", () => {
+  it("names the zone's abbreviation (CET in winter, CEST in summer, per the IANA database)", async () => {
+    const { formatInZone } = await import("./timezone");
+    expect(formatInZone(new Date("2027-03-28T18:00:00Z"), "Europe/Berlin")).toMatch(/28 Mar 2027.*20:00.*CEST/);
+    expect(formatInZone("2027-01-10T18:00:00Z", "Europe/Berlin")).toMatch(/10 Jan 2027.*19:00.*CET/);
+  });
+});

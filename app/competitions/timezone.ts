@@ -99,7 +99,8 @@ export function utcToZonedWallTime(instant: Date, tz: string): string {
 
 /** Human form in a zone, e.g. "28 Mar 2027, 20:00 CEST". */
 export function formatInZone(instant: Date | string, tz: string): string {
-  return new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: tz, timeZoneName: "short" }).format(
+  // dateStyle/timeStyle cannot be combined with timeZoneName, so the parts are named one by one.
+  return new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZone: tz, timeZoneName: "short" }).format(
     typeof instant === "string" ? new Date(instant) : instant,
   );
 }

@@ -45,7 +45,7 @@ function VisitorTime({ iso }: { iso: string }) {
   const [text, setText] = useState<string | null>(null);
   useEffect(() => {
     const tz = Intl.DateTimeFormat().resolvedOptions().timeZone;
-    setText(`${new Intl.DateTimeFormat(undefined, { dateStyle: "medium", timeStyle: "short", timeZoneName: "short" }).format(new Date(iso))} (${tz}, your clock)`);
+    setText(`${new Intl.DateTimeFormat(undefined, { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", timeZoneName: "short" }).format(new Date(iso))} (${tz}, your clock)`);
   }, [iso]);
   if (!text) return null;
   return (
