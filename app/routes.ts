@@ -69,22 +69,6 @@ export default [
   route("organize/:competitionId/jury", "routes/organize.$competitionId.jury.tsx"),
   route("organize/:competitionId/standings", "routes/organize.$competitionId.standings.tsx"),
   route("organize/:competitionId/entries/:entryId/history", "routes/organize.$competitionId.entries.$entryId.history.tsx"),
-  // showcase, audience vote, results and stage mode
-  route("e/:eventSlug/:competitionSlug/showcase", "routes/showcase.tsx"),
-  route("e/:eventSlug/:competitionSlug/entries/:entryId", "routes/showcase.entry.tsx"),
-  route("e/:eventSlug/:competitionSlug/entries/:entryId/media/:kind", "routes/showcase.media.ts"),
-  route("e/:eventSlug/:competitionSlug/vote", "routes/vote.tsx"),
-  route("e/:eventSlug/:competitionSlug/results", "routes/results.tsx"),
-  route("e/:eventSlug/:competitionSlug/results.csv", "routes/results.csv.ts"),
-  route("e/:eventSlug/:competitionSlug/results.txt", "routes/results.txt.ts"),
-  route("e/:eventSlug/:competitionSlug/recount.json", "routes/recount.json.ts"),
-  route("api/ballots/:competitionId", "routes/api.ballots.ts"),
-  route("organize/:competitionId/audience", "routes/organize.audience.tsx"),
-  route("organize/:competitionId/audience/codes", "routes/organize.audience.codes.ts"),
-  route("organize/:competitionId/audience/codes.csv", "routes/organize.audience.codes-csv.ts"),
-  route("organize/:competitionId/results", "routes/organize.results.tsx"),
-  route("stage/:competitionId", "routes/stage.tsx"),
-  // end showcase block
   // everything else
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;
