@@ -1,0 +1,103 @@
+import { eq } from "drizzle-orm";
+import { readFileSync } from "node:fs";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import yazl from "yazl";
+import { closeDb, db } from "~/db/client.server";
+import { artifacts, checkRuns, findings } from "~/db/schema";
+import { DEMO_RULESET } from "~/conformance/ruleset";
+import { executeCheckRun } from "~/conformance/run.server";
+import { queueCheckRun } from "~/conformance/queue.server";
+import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { stopQueue } from "~/jobs/queue.server";
+import * as artifactRoute from "~/routes/artifacts.$artifactId";
+import * as checksApi from "~/routes/api.checks.$entryId";
+import { designPath } from "../../demo/designs/index";
+import { makeCompetitionWithEntry, makeCompleteUpload } from "../support/entries";
+import { callRoute } from "../support/routes";
+import { makeEvent, makeUser, request, sessionCookie } from "../support/users";
+
+function zipOf(name: string, text: Buffer): Promise<Buffer> {
+  const z = new yazl.ZipFile();
+  z.addBuffer(text, name);
+  z.end();
+  const chunks: Buffer[] = [];
+  return new Promise((resolve) => {
+    z.outputStream.on("data", (c: Buffer) => chunks.push(c));
+    z.outputStream.on("end", () => resolve(Buffer.concat(chunks)));
+  });
+}
+
+let setup: Awaited<ReturnType<typeof prepare>>;
+
+async function prepare() {
+  const event = await makeEvent();
+  const captain = await makeUser();
+  const stranger = await makeUser();
+  const made = await makeCompetitionWithEntry({ eventId: event.id, captainId: captain.id, state: "open" });
+  const bundle = await zipOf("xor.v", readFileSync(designPath("xor-tide")));
+  const layout = generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 30, logicCells: 200, seed: 3 }).bytes;
+  const upload = await makeCompleteUpload(made.entry.id, 1, [
+    { kind: "bundle", bytes: bundle, filename: "xor.zip", mediaType: "application/zip" },
+    { kind: "layout", bytes: layout, filename: "xor.gds", mediaType: "application/vnd.gdsii" },
+  ]);
+  const runId = await queueCheckRun(upload.id);
+  return { event, captain, stranger, ...made, upload, runId };
+}
+
+beforeAll(async () => {
+  setup = await prepare();
+}, 120_000);
+afterAll(async () => {
+  await stopQueue();
+  await closeDb();
+});
+
+describe("a check run in the worker", () => {
+  it("runs every step once, stores findings, figures and artifacts, and is not repeated", async () => {
+    expect(await executeCheckRun(setup.runId)).toBe("done");
+    const [run] = await db().select().from(checkRuns).where(eq(checkRuns.id, setup.runId));
+    expect(run.state).toBe("done");
+    expect(run.verdict).toBe("pass");
+    expect(run.attempts).toBe(1);
+    const rows = await db().select().from(findings).where(eq(findings.checkRunId, setup.runId));
+    const rules = rows.map((r) => r.rule);
+    for (const rule of ["intake.bundle", "precheck.clean", "source.top", "layout.die.size", "video.hsync.period", "flash.general"]) expect(rules).toContain(rule);
+    const kinds = (await db().select().from(artifacts).where(eq(artifacts.checkRunId, setup.runId))).map((a) => a.kind).sort();
+    expect(kinds).toEqual(["contact-sheet", "first-frame", "layout-png", "layout-svg", "mp4", "waveform", "wav", "webm"].sort());
+    const figures = run.figures as { video: { hsync: { periodClocks: number } } };
+    // VESA DMT 640x480@60: 800 pixel clocks per line.
+    expect(figures.video.hsync.periodClocks).toBe(800);
+
+    // A second delivery of the same job (a retry after a lost acknowledgement) changes nothing.
+    expect(await executeCheckRun(setup.runId)).toBe("skipped");
+    const again = await db().select().from(findings).where(eq(findings.checkRunId, setup.runId));
+    expect(again).toHaveLength(rows.length);
+  }, 240_000);
+
+  it("shows the report to the crew through the JSON API and refuses strangers", async () => {
+    const own = (await checksApi.loader({ request: request(`/api/checks/${setup.entry.id}`, { cookie: await sessionCookie(setup.captain) }), params: { entryId: setup.entry.id }, context: {} } as never)) as Response;
+    expect(own.status).toBe(200);
+    const body = (await own.json()) as { check: { run: { verdict: string }; artifacts: Record<string, { url: string }> } };
+    expect(body.check.run.verdict).toBe("pass");
+    expect(body.check.artifacts.webm.url).toMatch(/^\/artifacts\//);
+    const other = await callRoute(checksApi.loader, request(`/api/checks/${setup.entry.id}`, { cookie: await sessionCookie(setup.stranger) }), { entryId: setup.entry.id });
+    expect(other.status).toBe(404);
+  });
+
+  it("streams artifacts to insiders with byte ranges, and not to the public while the compo is open", async () => {
+    const [mine] = (await db().select().from(artifacts).where(eq(artifacts.checkRunId, setup.runId))).filter((a) => a.kind === "first-frame");
+    const cookie = await sessionCookie(setup.captain);
+    const full = (await artifactRoute.loader({ request: request(`/artifacts/${mine.id}`, { cookie }), params: { artifactId: mine.id }, context: {} } as never)) as Response;
+    expect(full.status).toBe(200);
+    const bytes = Buffer.from(await full.arrayBuffer());
+    // PNG signature, from the PNG specification (ISO/IEC 15948): 89 50 4E 47 0D 0A 1A 0A.
+    expect(bytes.subarray(0, 8).toString("hex")).toBe("89504e470d0a1a0a");
+    expect(bytes.length).toBe(mine.sizeBytes);
+    const part = (await artifactRoute.loader({ request: request(`/artifacts/${mine.id}`, { cookie, headers: { range: "bytes=1-3" } }), params: { artifactId: mine.id }, context: {} } as never)) as Response;
+    expect(part.status).toBe(206);
+    expect(part.headers.get("content-range")).toBe(`bytes 1-3/${mine.sizeBytes}`);
+    expect(Buffer.from(await part.arrayBuffer()).toString("latin1")).toBe("PNG");
+    const anonymous = await callRoute(artifactRoute.loader, request(`/artifacts/${mine.id}`), { artifactId: mine.id });
+    expect(anonymous.status).toBe(404);
+  });
+});
