@@ -291,6 +291,8 @@ export const uploadFiles = pgTable(
     sha256: text("sha256"),
     mediaType: text("media_type"),
     multipartUploadId: text("multipart_upload_id"),
+    /** Parts the browser reported as stored ({partNumber, etag, size}); used to resume where the store cannot list parts. */
+    parts: jsonb("parts").$type<{ partNumber: number; etag: string; size: number }[]>().notNull().default([]),
     state: text("state").notNull().default("uploading"), // uploading | confirmed | rejected
     rejectReason: text("reject_reason"),
     createdAt: created(),

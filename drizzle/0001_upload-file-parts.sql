@@ -1,0 +1,1 @@
+ALTER TABLE "upload_files" ADD COLUMN "parts" jsonb DEFAULT '[]'::jsonb NOT NULL;
