@@ -45,7 +45,7 @@ export const DEMO_COMPETITIONS = {
   judging: {
     slug: "first-light",
     title: "First Light — warm-up compo",
-    description: "The warm-up round: a single tile, the same rules, judged by the jury and the hall.",
+    description: "The warm-up round: the same rules as Open Gate, judged by the jury and the hall.",
     state: "judging" as const,
     deadlineInDays: -2,
     feeAmount: 0,
