@@ -36,12 +36,12 @@ async function api<T>(url: string, body?: unknown): Promise<{ ok: true; data: T 
 
 class ConnectionLost extends Error {}
 
-function putPart(url: string, blob: Blob, onProgress: (loaded: number) => void): Promise<void> {
+function putPart(url: string, blob: Blob, onProgress: (loaded: number) => void): Promise<string> {
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     xhr.open("PUT", url);
     xhr.upload.onprogress = (e) => onProgress(e.loaded);
-    xhr.onload = () => (xhr.status >= 200 && xhr.status < 300 ? resolve() : reject(new ConnectionLost(`storage answered ${xhr.status}`)));
+    xhr.onload = () => (xhr.status >= 200 && xhr.status < 300 ? resolve(xhr.getResponseHeader("ETag") ?? "") : reject(new ConnectionLost(`storage answered ${xhr.status}`)));
     xhr.onerror = () => reject(new ConnectionLost("the connection broke"));
     xhr.ontimeout = () => reject(new ConnectionLost("the connection timed out"));
     xhr.send(blob);
@@ -96,7 +96,9 @@ export function UploadPanel({ entryId, limits, onRecorded }: { entryId: string; 
           try {
             const signed = await api<{ urls: Record<string, string> }>(fileUrl, { action: "sign", partNumbers: [n] });
             if (!signed.ok) throw new Error(signed.error.message);
-            await putPart(signed.data.urls[n], blob, (loaded) => set(kind, { sent: done + loaded }));
+            const etag = await putPart(signed.data.urls[n], blob, (loaded) => set(kind, { sent: done + loaded }));
+            const noted = await api(fileUrl, { action: "part", partNumber: n, etag, size: blob.size });
+            if (!noted.ok) throw new Error(noted.error.message);
             break;
           } catch (e) {
             if (!(e instanceof ConnectionLost || e instanceof TypeError) || attempt >= RETRIES) {

@@ -14,6 +14,7 @@ export const startUploadSchema = z.object({ files: z.array(claimedFileSchema).mi
 export const uploadActionSchema = z.object({ action: z.enum(["complete", "abandon"]) });
 export const fileActionSchema = z.discriminatedUnion("action", [
   z.object({ action: z.literal("sign"), partNumbers: z.array(z.number().int()).min(1).max(100) }),
+  z.object({ action: z.literal("part"), partNumber: z.number().int().min(1).max(10_000), etag: z.string().min(1).max(200), size: z.number().int().min(0) }),
   z.object({ action: z.literal("confirm") }),
 ]);
 

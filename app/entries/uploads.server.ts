@@ -1,7 +1,7 @@
 import { and, asc, eq, gt, inArray, lt, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { checkRuns, competitions, crewMembers, crews, entries, events, uploadFiles, uploads, user } from "~/db/schema";
-import { abortMultipart, completeMultipart, deleteObjectIfAny, hashObject, listParts, presignPart, startMultipart } from "./storage.server";
+import { abortMultipart, completeMultipart, deleteObjectIfAny, hashObject, listStoredParts, presignPart, startMultipart } from "./storage.server";
 import { queueCheckRun } from "~/conformance/queue.server";
 import { enqueueMail } from "~/mail/outbox.server";
 import { composeMail } from "~/mail/templates";
@@ -167,10 +167,34 @@ export async function signParts(file: FileRow, partNumbers: number[]): Promise<O
   return { ok: true, urls };
 }
 
-/** What S3 already holds of a file: the browser sends only the rest (resume after a broken connection or a reload). */
-export async function storedParts(file: FileRow): Promise<{ partNumber: number; size: number }[]> {
+/**
+ * What S3 already holds of a file: the browser sends only the rest (resume after a broken connection or a reload).
+ * From S3's ListParts where the store has it; otherwise the parts browsers reported after each stored PUT (the
+ * confirmation then checks the assembled object's size and hash, so a wrong report cannot slip through).
+ */
+export async function storedParts(file: FileRow): Promise<{ partNumber: number; size: number; etag: string }[]> {
   if (file.state !== "uploading" || !file.multipartUploadId) return [];
-  return (await listParts(file.s3Key, file.multipartUploadId)).map(({ partNumber, size }) => ({ partNumber, size }));
+  const listed = await listStoredParts(file.s3Key, file.multipartUploadId);
+  return (listed ?? file.parts).map(({ partNumber, size, etag }) => ({ partNumber, size, etag })).sort((a, b) => a.partNumber - b.partNumber);
+}
+
+/** The browser reports a part S3 accepted (its ETag from the PUT response). Reporting a part again replaces it. */
+export async function recordPart(file: FileRow, part: { partNumber: number; etag: string; size: number }): Promise<Outcome<{ recorded: number }>> {
+  if (file.state !== "uploading" || !file.multipartUploadId) return refuse(409, "file_closed", "This file is no longer uploading.");
+  const { partCount } = partPlan(file.claimedBytes);
+  if (part.partNumber < 1 || part.partNumber > partCount) return refuse(400, "bad_part", `Parts must be numbered 1 to ${partCount}.`);
+  // Sizes are not trusted here: the confirmation measures the assembled object in S3.
+  const entry = JSON.stringify([part]);
+  const [row] = await db()
+    .update(uploadFiles)
+    .set({
+      // One atomic update: drop an older report of the same part, append this one.
+      parts: sql`(select coalesce(jsonb_agg(p), '[]'::jsonb) from jsonb_array_elements(${uploadFiles.parts}) p where (p->>'partNumber')::int <> ${part.partNumber}) || ${entry}::jsonb`,
+    })
+    .where(and(eq(uploadFiles.id, file.id), eq(uploadFiles.state, "uploading")))
+    .returning({ parts: uploadFiles.parts });
+  if (!row) return refuse(409, "file_closed", "This file is no longer uploading.");
+  return { ok: true, recorded: row.parts.length };
 }
 
 export interface ConfirmedFile {
@@ -192,7 +216,7 @@ export async function confirmFile(file: FileRow, ruleset: ReturnType<typeof rule
   if (file.state === "rejected") return refuse(422, "file_refused", file.rejectReason ?? "This file was refused.");
   if (!file.multipartUploadId) return refuse(409, "file_closed", "This file has no upload in progress.");
   const { partCount } = partPlan(file.claimedBytes);
-  const parts = await listParts(file.s3Key, file.multipartUploadId);
+  const parts = await storedParts(file);
   const missing = Array.from({ length: partCount }, (_, i) => i + 1).filter((n) => !parts.some((p) => p.partNumber === n));
   if (missing.length) return refuse(409, "parts_missing", `Parts ${missing.join(", ")} of "${file.filename}" are not stored yet; send them and confirm again.`);
   await completeMultipart(file.s3Key, file.multipartUploadId, parts.filter((p) => p.partNumber <= partCount));

@@ -1,12 +1,12 @@
 import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
 import { fileActionSchema, okJson, refusalResponse } from "~/entries/api.server";
 import { rulesetOf } from "~/entries/service.server";
-import { confirmFile, fileForUploader, signParts, storedParts } from "~/entries/uploads.server";
+import { confirmFile, fileForUploader, recordPart, signParts, storedParts } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.uploads.$uploadId.files.$fileId";
 
 /**
  * GET: the parts S3 already holds (resume). POST {action: "sign", partNumbers} → presigned part URLs;
- * POST {action: "confirm"} → assemble and confirm the object (size, sniffed type, SHA-256). Crew members only.
+ * POST {action: "part", partNumber, etag, size} → records a part S3 accepted; POST {action: "confirm"} → assemble and confirm the object (size, sniffed type, SHA-256). Crew members only.
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireApiUser(request);
@@ -24,6 +24,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (body.action === "sign") {
     const out = await signParts(f.file, body.partNumbers);
     return out.ok ? okJson({ urls: out.urls }) : refusalResponse(out);
+  }
+  if (body.action === "part") {
+    const out = await recordPart(f.file, body);
+    return out.ok ? okJson({ recorded: out.recorded }) : refusalResponse(out);
   }
   const out = await confirmFile(f.file, rulesetOf(f.competition.ruleset));
   return out.ok ? okJson({ file: out.file }) : refusalResponse(out);
