@@ -4,6 +4,10 @@ import "./app.css";
 import { NavBar, type NavUser } from "./components/NavBar";
 import { getSession } from "./auth/guards.server";
 import { roleSummary } from "./users/summary.server";
+import { rootMiddleware } from "./security/middleware.server";
+
+/** Security headers, CSP nonce and the same-origin check for mutations (app/security). */
+export const middleware: Route.MiddlewareFunction[] = rootMiddleware;
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 

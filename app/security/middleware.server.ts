@@ -1,0 +1,32 @@
+import { data, type MiddlewareFunction } from "react-router";
+import { apiError } from "~/api/json.server";
+import { nonceContext } from "./context";
+import { applySecurityHeaders, newNonce } from "./headers.server";
+import { checkMutationOrigin } from "./origin.server";
+
+/**
+ * The root route's server middleware (React Router `future.v8_middleware`), run around every page, data and
+ * resource request before any loader or action:
+ * 1. `securityHeaders` hands a fresh CSP nonce to entry.server through the router context and puts the security
+ *    headers on whatever response comes back (error pages included: `next()` turns a thrown error into a response);
+ * 2. `sameOriginMutations` refuses a cross-site mutation with 403 before the action runs.
+ */
+export const securityHeaders: MiddlewareFunction<Response> = async ({ context }, next) => {
+  const nonce = newNonce();
+  context.set(nonceContext, nonce);
+  const res = await next();
+  // A fresh response: one built by fetch() (a proxied body) has immutable headers.
+  const out = new Response(res.body, { status: res.status, statusText: res.statusText, headers: new Headers(res.headers) });
+  applySecurityHeaders(out.headers, nonce, { dev: import.meta.env.DEV });
+  return out;
+};
+
+export const sameOriginMutations: MiddlewareFunction<Response> = async ({ request }, next) => {
+  const verdict = checkMutationOrigin(request);
+  if (verdict.ok) return next();
+  const message = "This request did not come from a Gatecrash page, so it was refused. Reload the page and try again.";
+  if (new URL(request.url).pathname.startsWith("/api/")) return apiError(403, "cross_origin", message);
+  throw data({ message }, { status: 403 });
+};
+
+export const rootMiddleware = [securityHeaders, sameOriginMutations];
