@@ -4,7 +4,8 @@ import { z } from "zod";
 export const voteFormSchema = z.object({
   code: z.string().trim().max(40, "A vote code is 8 letters and digits.").optional(),
   ranking: z.array(z.string()).optional(),
-  points: z.record(z.string(), z.number({ error: "Pick 0–5 points, or leave it unrated." }).int().min(0).max(5).optional()).optional(),
+  // Radio values "0".."5"; "" (not rated) arrives as undefined. Range and whole numbers are checked by validateBallot.
+  points: z.record(z.string(), z.string().optional()).optional(),
 });
 
 export type VoteForm = z.infer<typeof voteFormSchema>;
@@ -13,7 +14,7 @@ export type VoteForm = z.infer<typeof voteFormSchema>;
 export function ballotFromForm(method: "points" | "borda" | "schulze", v: VoteForm): unknown {
   if (method === "points") {
     const points: Record<string, number> = {};
-    for (const [k, n] of Object.entries(v.points ?? {})) if (typeof n === "number") points[k] = n;
+    for (const [k, raw] of Object.entries(v.points ?? {})) if (raw !== undefined && raw !== "") points[k] = /^\d+$/.test(raw) ? Number(raw) : (raw as unknown as number);
     return { points };
   }
   return { ranking: v.ranking ?? [] };
