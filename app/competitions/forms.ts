@@ -250,6 +250,7 @@ export function competitionFormSchema(timeZone: string) {
       if (v.votingOpens && !v.votingCloses) ctx.addIssue({ code: "custom", path: ["votingCloses"], message: "When does voting close?" });
       if (v.votingCloses && !v.votingOpens) ctx.addIssue({ code: "custom", path: ["votingOpens"], message: "When does voting open?" });
       if (v.votingOpens && v.votingCloses && v.votingCloses <= v.votingOpens) ctx.addIssue({ code: "custom", path: ["votingCloses"], message: "Voting closes after it opens." });
+      if (v.free && v.feeAmount) ctx.addIssue({ code: "custom", path: ["feeAmount"], message: "“Free entry” is ticked: clear the amount, or untick it to charge this fee." });
       if (!v.free) {
         if (!v.feeAmount) ctx.addIssue({ code: "custom", path: ["feeAmount"], message: "Enter the fee, or tick “Free entry”." });
         if (!v.feeCurrency || !isKnownCurrency(v.feeCurrency)) ctx.addIssue({ code: "custom", path: ["feeCurrency"], message: "A three-letter ISO 4217 currency code, like EUR." });
