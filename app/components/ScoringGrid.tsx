@@ -424,7 +424,9 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
         </p>
         <progress className="h-2 w-48 accent-violet" max={Math.max(1, data.rows.length)} value={scoredCount} aria-label="Scoring progress" />
         <p className="text-sm" role="status" data-testid="save-status">
-          {unsaved > 0 ? (
+          {conflicted.length + noteConflicts.length > 0 ? (
+            <span className="font-semibold text-warn">{conflicted.length + noteConflicts.length} change(s) need your decision — see above the grid</span>
+          ) : unsaved > 0 ? (
             <span className="font-semibold text-warn">{unsaved} change{unsaved === 1 ? "" : "s"} not saved yet — kept here and retried</span>
           ) : failed > 0 ? (
             <span className="font-semibold text-fail">{failed} change{failed === 1 ? "" : "s"} refused — see the marked cells</span>
@@ -625,7 +627,7 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
                               <ScoringMark status={st.status} />
                             </span>
                           )}
-                          {(isEditing && editing?.error) || st.message ? (
+                          {(isEditing && editing?.error) || (st.message && st.status !== "conflict") ? (
                             <span id={errId} role={isEditing ? "alert" : undefined} className="block max-w-40 text-xs font-medium text-fail">
                               {isEditing ? editing?.error : st.message}
                             </span>

@@ -241,6 +241,12 @@ export default function Standings({ loaderData }: Route.ComponentProps) {
             <h2 id="missing-h" className="mb-2 text-xl font-bold">
               Missing scores
             </h2>
+            {view.judges.some((j) => !summaries.has(j.id)) && (
+              <p className="mb-2 text-sm" data-testid="idle-judges">
+                <strong>No scores yet from:</strong> {view.judges.filter((j) => !summaries.has(j.id)).map((j) => j.name).join(", ")} — they are left out of
+                every mean until they score.
+              </p>
+            )}
             {st.missing.length === 0 ? (
               <p className="text-sm text-mute">None: every judge scored every criterion of every entry.</p>
             ) : (
