@@ -1,5 +1,6 @@
 import { data, type MiddlewareFunction } from "react-router";
 import { apiError } from "~/api/json.server";
+import { databaseAway } from "~/health/middleware.server";
 import { nonceContext } from "./context";
 import { applySecurityHeaders, newNonce } from "./headers.server";
 import { checkMutationOrigin } from "./origin.server";
@@ -18,6 +19,8 @@ export const securityHeaders: MiddlewareFunction<Response> = async ({ context },
   // A fresh response: one built by fetch() (a proxied body) has immutable headers.
   const out = new Response(res.body, { status: res.status, statusText: res.statusText, headers: new Headers(res.headers) });
   applySecurityHeaders(out.headers, nonce, { dev: import.meta.env.DEV });
+  // The error page React Router renders for a thrown 503 (database away) does not keep the thrown headers.
+  if (out.status === 503 && !out.headers.has("Retry-After")) out.headers.set("Retry-After", "5");
   return out;
 };
 
@@ -29,4 +32,5 @@ export const sameOriginMutations: MiddlewareFunction<Response> = async ({ reques
   throw data({ message }, { status: 403 });
 };
 
-export const rootMiddleware = [securityHeaders, sameOriginMutations];
+/** In order: headers around everything, then the 503 for a database that is away, then the origin rule. */
+export const rootMiddleware = [securityHeaders, databaseAway, sameOriginMutations];
