@@ -176,7 +176,8 @@ export function rulesetFromForm(f: RulesetForm): RulesetInput {
   };
 }
 
-const mib = (bytes: number) => Math.round((bytes / MIB) * 1000) / 1000;
+// Exact (bytes / 2^20 is a finite binary fraction), so a save without changes gives back the same byte counts.
+const mib = (bytes: number) => bytes / MIB;
 
 /** A stored ruleset as the form's default values (numbers as strings the inputs show). */
 export function rulesetToForm(r: Ruleset) {

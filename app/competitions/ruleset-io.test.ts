@@ -35,3 +35,22 @@ describe("ruleset JSON", () => {
     expect(!j.ok && j.errors[0]).toMatch(/not valid JSON/);
   });
 });
+
+describe("ruleset through the form", () => {
+  it("comes back unchanged when saved without edits, even with byte limits that are not whole MiB", async () => {
+    const { rulesetFromForm, rulesetToForm, rulesetFormSchema } = await import("./forms");
+    const { rulesetSchema } = await import("~/conformance/ruleset");
+    const odd = rulesetSchema.parse({ ...DEMO_RULESET, uploadLimits: { ...DEMO_RULESET.uploadLimits, bundleBytes: 1_000_000, layoutBytes: 12_345_678 }, pinLayer: { layer: 5, datatype: 20, edgeToleranceUm: 0.5 } });
+    const asForm = rulesetToForm(odd);
+    // The browser sends strings; Conform coerces them to numbers as the schema says — here by hand.
+    const coerced = JSON.parse(JSON.stringify(asForm), (_k, v) => (typeof v === "string" && v !== "" && !Number.isNaN(Number(v)) ? Number(v) : v === "" ? undefined : v));
+    coerced.flashCheck.enabled = asForm.flashCheck.enabled === "on";
+    coerced.topModule = asForm.topModule;
+    coerced.flipFlopPattern = asForm.flipFlopPattern;
+    coerced.tile.shapes = asForm.tile.shapes;
+    coerced.forbiddenCellPatterns = asForm.forbiddenCellPatterns;
+    coerced.pins = asForm.pins.map((p) => ({ ...p, width: Number(p.width) }));
+    const parsed = rulesetFormSchema.parse(coerced);
+    expect(rulesetSchema.parse(rulesetFromForm(parsed))).toEqual(odd);
+  });
+});

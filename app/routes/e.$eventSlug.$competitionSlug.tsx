@@ -190,25 +190,25 @@ export default function CompetitionRules({ loaderData }: Route.ComponentProps) {
               <thead className="text-mute">
                 <tr>
                   <th scope="col" className="py-1 font-medium" />
-                  <th scope="col" className="py-1 font-medium">Active</th>
-                  <th scope="col" className="py-1 font-medium">Front porch</th>
-                  <th scope="col" className="py-1 font-medium">Sync</th>
-                  <th scope="col" className="py-1 font-medium">Back porch</th>
-                  <th scope="col" className="py-1 font-medium">Total</th>
+                  <th scope="col" className="py-1 pr-3 font-medium">Active</th>
+                  <th scope="col" className="py-1 pr-3 font-medium">Front porch</th>
+                  <th scope="col" className="py-1 pr-3 font-medium">Sync</th>
+                  <th scope="col" className="py-1 pr-3 font-medium">Back porch</th>
+                  <th scope="col" className="py-1 pr-3 font-medium">Total</th>
                   <th scope="col" className="py-1 font-medium">Sync polarity</th>
                 </tr>
               </thead>
               <tbody>
                 {(["h", "v"] as const).map((axis) => (
                   <tr key={axis} className="border-t border-line">
-                    <th scope="row" className="py-1 text-left font-medium">
+                    <th scope="row" className="py-1 pr-3 text-left font-medium">
                       {axis === "h" ? "Horizontal (pixels)" : "Vertical (lines)"}
                     </th>
-                    <td className="py-1">{vm[axis].active}</td>
-                    <td className="py-1">{vm[axis].frontPorch}</td>
-                    <td className="py-1">{vm[axis].sync}</td>
-                    <td className="py-1">{vm[axis].backPorch}</td>
-                    <td className="py-1">{vm[axis].total}</td>
+                    <td className="py-1 pr-3">{vm[axis].active}</td>
+                    <td className="py-1 pr-3">{vm[axis].frontPorch}</td>
+                    <td className="py-1 pr-3">{vm[axis].sync}</td>
+                    <td className="py-1 pr-3">{vm[axis].backPorch}</td>
+                    <td className="py-1 pr-3">{vm[axis].total}</td>
                     <td className="py-1">{vm[axis].syncPolarity}</td>
                   </tr>
                 ))}

@@ -264,6 +264,26 @@ describe("lifecycle", () => {
   });
 });
 
+describe("frozen rules after the deadline", () => {
+  it("refuses to move the deadline, fee or ruleset of a closed compo, but saves its title", async () => {
+    const { cookie, event } = await organizerWithEvent();
+    const id = await createCompetition(cookie, event.id, { deadline: "2027-03-28T20:00" });
+    await db().update(competitions).set({ state: "closed" }).where(eq(competitions.id, id));
+    const edit = await callRoute<{ defaults: Record<string, unknown>; frozen: boolean }>(editRoute.loader, request(`/organize/${id}/edit`, { cookie }), { competitionId: id });
+    expect(edit.data?.frozen).toBe(true);
+    const saved = flatten(edit.data?.defaults);
+    const moved = await callRoute<{ result: Reply }>(editRoute.action, request(`/organize/${id}/edit`, { cookie, form: { ...saved, deadline: "2027-04-04T20:00", "ruleset.topModule": "other_top" } }), { competitionId: id });
+    expect(moved.status).toBe(200);
+    expect(Object.keys(moved.data?.result.error ?? {}).filter((k) => moved.data?.result.error?.[k]?.length).sort()).toEqual(["", "deadline", "ruleset.topModule"].sort());
+    const renamed = await callRoute(editRoute.action, request(`/organize/${id}/edit`, { cookie, form: { ...saved, title: "Renamed after the deadline" } }), { competitionId: id });
+    expect(renamed.status).toBe(302);
+    const [c] = await db().select().from(competitions).where(eq(competitions.id, id));
+    expect([c.title, c.deadlineAt?.toISOString(), c.rulesetVersion]).toEqual(["Renamed after the deadline", "2027-03-28T18:00:00.000Z", 1]);
+    const imp = await callRoute<{ result: Reply }>(editRoute.action, request(`/organize/${id}/edit`, { cookie, form: { intent: "import", rulesetJson: JSON.stringify(DEMO_RULESET) } }), { competitionId: id });
+    expect(imp.data?.result.error?.rulesetJson?.[0]).toMatch(/frozen/);
+  });
+});
+
 describe("access", () => {
   it("answers another event's ids with 404, lets an admin in, sends anonymous visitors to sign in", async () => {
     const a = await organizerWithEvent();

@@ -98,9 +98,10 @@ export function EntriesTable({
       sortFn: "alphanumeric",
       filterFn: "equalsString",
       cell: (i) => (
-        <span title={i.row.original.disqualifiedReason ?? undefined} className={i.getValue() === "disqualified" ? "font-semibold text-fail" : ""}>
-          {i.getValue()}
-        </span>
+        <div className="max-w-56">
+          <span className={i.getValue() === "disqualified" ? "font-semibold text-fail" : ""}>{i.getValue()}</span>
+          {i.row.original.disqualifiedReason && <p className="mt-0.5 text-xs text-ink-soft">{i.row.original.disqualifiedReason}</p>}
+        </div>
       ),
     }),
     h.display({
