@@ -114,7 +114,7 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
         now.status = "saved";
       } else if (!res || res.status >= 500) {
         now.status = "unsaved";
-        now.message = "Not saved yet: the connection dropped. Retrying…";
+        now.message = "Offline? Kept here, retrying.";
         const delay = retryDelayMs(now.attempts);
         now.attempts += 1;
         clearTimeout(timers.current.get(k));
@@ -169,7 +169,7 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
         if (now.status === "unsaved") void sendNote(entryId);
       } else if (!res || res.status >= 500) {
         now.status = "unsaved";
-        now.message = "Not saved yet: the connection dropped. Retrying…";
+        now.message = "Offline? Kept here, retrying.";
         const delay = retryDelayMs(now.attempts);
         now.attempts += 1;
         clearTimeout(timers.current.get(k));
@@ -628,7 +628,7 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
                             </span>
                           )}
                           {(isEditing && editing?.error) || (st.message && st.status !== "conflict") ? (
-                            <span id={errId} role={isEditing ? "alert" : undefined} className="block max-w-40 text-xs font-medium text-fail">
+                            <span id={errId} role={isEditing ? "alert" : undefined} className={`block max-w-40 text-xs font-medium ${st.status === "unsaved" && !isEditing ? "text-warn" : "text-fail"}`}>
                               {isEditing ? editing?.error : st.message}
                             </span>
                           ) : null}

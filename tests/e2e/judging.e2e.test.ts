@@ -108,6 +108,18 @@ describe("judging in the browser", () => {
     expect(await orgPage.textContent(`[data-testid="rank-${rowIds[0]}"]`)).toContain("8.667");
     await orgPage.getByTestId("distribution-chart").waitFor();
     await screenshot(orgPage, "judging-standings");
+    await orgPage.goto(`/organize/${compo.competitionId}/jury`);
+    await orgPage.getByTestId("conflict-list").waitFor();
+    expect(await orgPage.getByTestId("conflict-list").textContent()).toContain("automatic");
+    await screenshot(orgPage, "judging-organizer-jury");
+    await orgPage.goto(`/organize/${compo.competitionId}/entries/${rowIds[2]}/history`);
+    await orgPage.getByTestId("score-history").waitFor();
+    expect(await orgPage.getByTestId("score-history").textContent()).toContain("tight sync, loud square wave");
+    await screenshot(orgPage, "judging-history");
+    // The judge's entry page: no capture yet, the not-ready state says so.
+    await page.goto(`/judging/${compo.competitionId}/entries/${rowIds[0]}`);
+    await page.getByTestId("capture-not-ready").waitFor();
+    await screenshot(page, "judging-entry");
     await ctx.close();
     await org.close();
   });
