@@ -8,7 +8,7 @@
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { basename, join, resolve } from "node:path";
 import { ensureDebianPackages, RUNTIME_PACKAGES, TEST_PACKAGES } from "./lib/system-deps";
 import { clusterFor, createDatabase, initCluster, startCluster, stopCluster } from "./lib/postgres";
 import { applyMigrations } from "./lib/migrate";
@@ -31,6 +31,7 @@ async function main(): Promise<number> {
   // The test cluster's folder must be reachable by the postgres user.
   spawnSync("chmod", ["755", root]);
   const cluster = clusterFor(join(root, "pg"), await freePort());
+  const buildDir = resolve(".gatecrash", `test-build-${basename(root)}`);
   initCluster(cluster);
   startCluster(cluster);
   const stops: (() => Promise<void>)[] = [];
@@ -47,7 +48,8 @@ async function main(): Promise<number> {
       TEST_PG_DATA: cluster.dataDir,
       TEST_PG_PORT: String(cluster.port),
       TEST_ROOT: root,
-      GATECRASH_BUILD_DIR: join(root, "build"),
+      // Inside the project, so the built server resolves node_modules; one folder per run.
+      GATECRASH_BUILD_DIR: buildDir,
     };
     const fakes = await startStack({ ports, dataDir: join(root, "data"), env, services: ["s3", "mail", "payments"], quiet: true });
     stops.push(fakes.stop);
@@ -65,6 +67,7 @@ async function main(): Promise<number> {
     for (const stop of stops.reverse()) await stop();
     stopCluster(cluster);
     rmSync(root, { recursive: true, force: true });
+    rmSync(buildDir, { recursive: true, force: true });
   }
 }
 
