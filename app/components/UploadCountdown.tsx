@@ -5,7 +5,7 @@ import { useEffect, useState } from "react";
  * daylight-saving changes), with the cutoff shown in the visitor's time zone and in the event's.
  */
 const fmt = (d: Date, timeZone?: string) =>
-  new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone, timeZoneName: "short" }).format(d);
+  new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "long", timeZone }).format(d);
 
 function parts(ms: number) {
   const s = Math.max(0, Math.floor(ms / 1000));

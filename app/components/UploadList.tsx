@@ -8,7 +8,7 @@ export interface UploadListItem {
 }
 
 const fmt = (iso: string, timeZone: string) =>
-  new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "medium", timeZone, timeZoneName: "short" }).format(new Date(iso));
+  new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "long", timeZone }).format(new Date(iso));
 
 const size = (n: number) => (n < 1024 ? `${n} B` : n < 1048576 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1048576).toFixed(1)} MiB`);
 
