@@ -14,6 +14,8 @@ export async function callRoute<T>(fn: unknown, request: Request, params: Record
   try {
     const value = await (fn as RouteFn<T>)({ request, params, context: {} });
     if (value instanceof Response) return { status: value.status, location: value.headers.get("location") ?? undefined };
+    const returned = value as { type?: string; init?: { status?: number }; data?: T };
+    if (returned?.type === "DataWithResponseInit") return { status: returned.init?.status ?? 200, data: returned.data };
     return { status: 200, data: value };
   } catch (thrown) {
     if (thrown instanceof Response) return { status: thrown.status, location: thrown.headers.get("location") ?? undefined };
