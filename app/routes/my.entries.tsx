@@ -44,7 +44,8 @@ export async function loader({ request }: Route.LoaderArgs) {
     hasCrew: crewIds.length > 0,
     crews: myCrews,
     // An open compo is worth offering while at least one of my crews has not entered it.
-    openCompetitions: open.map((c) => ({ ...c, enteredByAll: myCrews.length > 0 && myCrews.every((cr) => rows.some((r) => r.crewId === cr.id && r.competitionId === c.id)) })),
+    // The deadline text is made here: browsers refuse formatInZone's option mix (dateStyle with timeZoneName).
+    openCompetitions: open.map((c) => ({ ...c, deadlineText: c.deadlineAt ? formatInZone(c.deadlineAt, c.timeZone) : null, enteredByAll: myCrews.length > 0 && myCrews.every((cr) => rows.some((r) => r.crewId === cr.id && r.competitionId === c.id)) })),
   };
 }
 
@@ -87,7 +88,7 @@ export default function MyEntries({ loaderData }: Route.ComponentProps) {
                 <li key={c.id} className="card flex flex-wrap items-center justify-between gap-2 py-3">
                   <span>
                     <span className="font-semibold">{c.title}</span> <span className="text-sm text-mute">{c.eventTitle}</span>
-                    {c.deadlineAt && <span className="block text-xs text-ink-soft">Deadline {formatInZone(c.deadlineAt, c.timeZone)}</span>}
+                    {c.deadlineText && <span className="block text-xs text-ink-soft">Deadline {c.deadlineText}</span>}
                   </span>
                   {c.enteredByAll ? (
                     <span className="text-sm text-mute">Entered</span>
