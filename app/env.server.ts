@@ -23,6 +23,10 @@ const envSchema = z.object({
   /** Cookies get the Secure flag when the app is served over https. */
   TRUSTED_ORIGINS: z.string().default(""),
   AUTH_RATE_LIMIT: z.coerce.number().int().default(10),
+  /** How long a check-run job may stay active before pg-boss hands it to another worker (a killed worker's job). */
+  CHECK_RUN_EXPIRE_SECONDS: z.coerce.number().int().min(1).default(15 * 60),
+  /** How often the supervising worker expires stalled jobs (pg-boss maintenance; its default is 120 s). */
+  QUEUE_MAINTENANCE_SECONDS: z.coerce.number().int().min(1).default(120),
 });
 
 export type Env = z.infer<typeof envSchema>;

@@ -76,7 +76,7 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
       detail = (error.data as { message?: string })?.message ?? "You do not have access to this page.";
     } else if (error.status === 503) {
       title = "Gatecrash is catching its breath";
-      detail = "The database is not answering right now. Your work is safe; this page will work again shortly.";
+      detail = (error.data as { message?: string })?.message ?? "The database is not answering right now. Your work is safe; this page will work again shortly.";
     } else {
       detail = (error.data as { message?: string })?.message ?? error.statusText;
     }

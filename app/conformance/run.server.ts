@@ -59,7 +59,10 @@ export async function executeCheckRun(checkRunId: string, opts: { simulate?: boo
       const put = await putObject(key, readFileSync(a.path), a.mediaType);
       stored.push({ checkRunId, kind: a.kind, s3Key: key, mediaType: a.mediaType, sizeBytes: put.size, sha256: put.sha256 });
     }
-    await db().transaction(async (tx) => {
+    const outcome = await db().transaction(async (tx) => {
+      // A second attempt (a re-delivered job while a stalled one still ran) waits here and then finds the run done.
+      const [locked] = await tx.select({ state: checkRuns.state }).from(checkRuns).where(eq(checkRuns.id, checkRunId)).for("update");
+      if (!locked || locked.state === "done") return "skipped" as const;
       await tx.delete(findings).where(eq(findings.checkRunId, checkRunId));
       await tx.delete(artifacts).where(eq(artifacts.checkRunId, checkRunId));
       if (result.findings.length)
@@ -82,9 +85,10 @@ export async function executeCheckRun(checkRunId: string, opts: { simulate?: boo
         .update(checkRuns)
         .set({ state: "done", step: null, verdict: result.verdict, figures: { ...result.figures, skipped: result.skipped }, finishedAt: new Date() })
         .where(eq(checkRuns.id, checkRunId));
+      return "done" as const;
     });
     rmSync(workDir, { recursive: true, force: true });
-    return "done";
+    return outcome;
   } catch (e) {
     const message = e instanceof Error ? e.message : String(e);
     await db().update(checkRuns).set({ state: "error", error: message.slice(0, 2000), finishedAt: new Date() }).where(eq(checkRuns.id, checkRunId));

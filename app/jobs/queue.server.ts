@@ -21,6 +21,7 @@ export function queue(opts: { supervise?: boolean } = {}): Promise<PgBoss> {
       supervise: opts.supervise ?? false,
       schedule: opts.supervise ?? false,
       max: 4,
+      maintenanceIntervalSeconds: env().QUEUE_MAINTENANCE_SECONDS,
     });
     b.on("error", (e) => console.error("[queue]", e.message));
     await b.start();
