@@ -19,6 +19,9 @@ export default [
   // JSON API
   route("api/auth/*", "routes/api.auth.ts"),
   route("api/me", "routes/api.me.ts"),
+  // conformance reports and artifacts (app/conformance)
+  route("api/checks/:entryId", "routes/api.checks.$entryId.ts"),
+  route("artifacts/:artifactId", "routes/artifacts.$artifactId.ts"),
   // organizer flows and the public rules page (app/competitions)
   route("organize/events/new", "routes/organize.events.new.tsx"),
   route("organize/events/:eventId", "routes/organize.events.$eventId.tsx"),
@@ -44,6 +47,15 @@ export default [
   route("api/uploads/:uploadId/files", "routes/api.uploads.$uploadId.files.ts"),
   route("api/uploads/:uploadId/files/:fileId", "routes/api.uploads.$uploadId.files.$fileId.ts"),
   // end of entrant flows
+  // judging: jury, scoring grid, standings (app/judging)
+  route("judging/:competitionId", "routes/judging.$competitionId.tsx"),
+  route("judging/:competitionId/entries/:entryId", "routes/judging.$competitionId.entries.$entryId.tsx"),
+  route("api/judging/:competitionId/scores", "routes/api.judging.$competitionId.scores.ts"),
+  route("api/judging/:competitionId/notes", "routes/api.judging.$competitionId.notes.ts"),
+  route("judge-invites/:token", "routes/judge-invites.$token.tsx"),
+  route("organize/:competitionId/jury", "routes/organize.$competitionId.jury.tsx"),
+  route("organize/:competitionId/standings", "routes/organize.$competitionId.standings.tsx"),
+  route("organize/:competitionId/entries/:entryId/history", "routes/organize.$competitionId.entries.$entryId.history.tsx"),
   // showcase, audience vote, results and stage mode
   route("e/:eventSlug/:competitionSlug/showcase", "routes/showcase.tsx"),
   route("e/:eventSlug/:competitionSlug/entries/:entryId", "routes/showcase.entry.tsx"),
@@ -60,15 +72,6 @@ export default [
   route("organize/:competitionId/results", "routes/organize.results.tsx"),
   route("stage/:competitionId", "routes/stage.tsx"),
   // end showcase block
-  // judging: jury, scoring grid, standings (app/judging)
-  route("judging/:competitionId", "routes/judging.$competitionId.tsx"),
-  route("judging/:competitionId/entries/:entryId", "routes/judging.$competitionId.entries.$entryId.tsx"),
-  route("api/judging/:competitionId/scores", "routes/api.judging.$competitionId.scores.ts"),
-  route("api/judging/:competitionId/notes", "routes/api.judging.$competitionId.notes.ts"),
-  route("judge-invites/:token", "routes/judge-invites.$token.tsx"),
-  route("organize/:competitionId/jury", "routes/organize.$competitionId.jury.tsx"),
-  route("organize/:competitionId/standings", "routes/organize.$competitionId.standings.tsx"),
-  route("organize/:competitionId/entries/:entryId/history", "routes/organize.$competitionId.entries.$entryId.history.tsx"),
   // everything else
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -74,6 +74,8 @@ export function PlayerGate({
       <figcaption className={`mt-1 text-xs ${tone === "dark" ? "text-white/70" : "text-mute"}`}>
         {label} · {flashStatement}
       </figcaption>
+      {/* The preview carries the PWM pin's audio, so its caution stays beside the player. */}
+      <AudioCaution className={`mt-1 text-xs ${tone === "dark" ? "text-white/70" : "text-mute"}`} />
     </figure>
   );
 }

@@ -1,6 +1,7 @@
 import { data, Form, Link, redirect, useRevalidator } from "react-router";
 import { z } from "zod";
 import { requireUser } from "~/auth/guards.server";
+import { CheckRunPanel } from "~/components/conformance/CheckRunPanel";
 import { UploadCountdown } from "~/components/UploadCountdown";
 import { UploadList } from "~/components/UploadList";
 import { UploadPanel } from "~/components/UploadPanel";
@@ -43,6 +44,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     payments: (await paymentsOfEntry(entry.id)).map((p) => ({ ...p, createdAt: p.createdAt.toISOString(), amountText: formatMoney(p.amount, p.currency) })),
     check: check && { uploadNumber: check.uploadNumber, state: check.run?.state ?? null, verdict: check.run?.verdict ?? null, fails: check.findings.filter((f) => f.verdict === "fail").length, warns: check.findings.filter((f) => f.verdict === "warn").length },
     feeNotice: feeNotice === "returned" || feeNotice === "cancelled" ? feeNotice : null,
+    report: check,
+    videoMode: ruleset.videoMode,
   };
 }
 
@@ -84,7 +87,10 @@ export default function EntryDashboard({ loaderData, actionData }: Route.Compone
         {!crewView && <span className="ml-2 rounded-full bg-violet-soft px-2 py-0.5 text-xs font-semibold text-violet">Organizer view (read-only)</span>}
       </p>
 
-      {/* CheckRunPanel */}
+      <div className="mb-6">
+        {/* Remounts when a new upload brings a new run, so the panel starts polling that one. */}
+        <CheckRunPanel key={d.report?.run?.id ?? "none"} entryId={d.entry.id} initial={d.report} videoMode={d.videoMode} />
+      </div>
 
       <div className="mb-6 grid gap-4 md:grid-cols-3">
         <div className="card">
