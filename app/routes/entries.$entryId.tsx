@@ -87,10 +87,6 @@ export default function EntryDashboard({ loaderData, actionData }: Route.Compone
         {!crewView && <span className="ml-2 rounded-full bg-violet-soft px-2 py-0.5 text-xs font-semibold text-violet">Organizer view (read-only)</span>}
       </p>
 
-      <div className="mb-6">
-        {/* Remounts when a new upload brings a new run, so the panel starts polling that one. */}
-        <CheckRunPanel key={d.report?.run?.id ?? "none"} entryId={d.entry.id} initial={d.report} videoMode={d.videoMode} />
-      </div>
 
       <div className="mb-6 grid gap-4 md:grid-cols-3">
         <div className="card">
@@ -148,6 +144,11 @@ export default function EntryDashboard({ loaderData, actionData }: Route.Compone
           <h2 className="mb-3 text-lg font-bold">Uploads</h2>
           <UploadList uploads={d.uploads} timeZone={d.event.timeZone} />
         </section>
+      </div>
+
+      <div className="mt-8">
+        {/* Remounts when a new upload brings a new run, so the panel starts polling that one. */}
+        <CheckRunPanel key={d.report?.run?.id ?? "none"} entryId={d.entry.id} initial={d.report} videoMode={d.videoMode} />
       </div>
     </div>
   );
