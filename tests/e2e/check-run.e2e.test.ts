@@ -1,0 +1,63 @@
+import { readFileSync } from "node:fs";
+import type { Browser } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import yazl from "yazl";
+import { closeDb } from "~/db/client.server";
+import { DEMO_RULESET } from "~/conformance/ruleset";
+import { queueCheckRun } from "~/conformance/queue.server";
+import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { stopQueue } from "~/jobs/queue.server";
+import { designPath } from "../../demo/designs/index";
+import { makeCompetitionWithEntry, makeCompleteUpload } from "../support/entries";
+import { makeEvent, makeUser, sessionCookie } from "../support/users";
+import { contextWithCookie, launch, screenshot } from "./browser";
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launch();
+});
+afterAll(async () => {
+  await browser?.close();
+  await stopQueue();
+  await closeDb();
+});
+
+function zipOf(name: string, text: Buffer): Promise<Buffer> {
+  const z = new yazl.ZipFile();
+  z.addBuffer(text, name);
+  z.end();
+  const chunks: Buffer[] = [];
+  return new Promise((resolve) => {
+    z.outputStream.on("data", (c: Buffer) => chunks.push(c));
+    z.outputStream.on("end", () => resolve(Buffer.concat(chunks)));
+  });
+}
+
+describe("the live check report on the entry page", () => {
+  it("follows a queued run through the worker to its report, and plays the capture only after the warning", async () => {
+    const event = await makeEvent("Check Party");
+    const captain = await makeUser({ name: "Runner" });
+    const { entry } = await makeCompetitionWithEntry({ eventId: event.id, captainId: captain.id, state: "open" });
+    const upload = await makeCompleteUpload(entry.id, 1, [
+      { kind: "bundle", bytes: await zipOf("copper.v", readFileSync(designPath("copper-sine"))), filename: "copper.zip", mediaType: "application/zip" },
+      { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "2x1", flipFlops: 120, logicCells: 500, seed: 9 }).bytes, filename: "copper.gds", mediaType: "application/vnd.gdsii" },
+    ]);
+    await queueCheckRun(upload.id);
+
+    const ctx = await contextWithCookie(browser, await sessionCookie(captain));
+    const page = await ctx.newPage();
+    await page.goto(`/entries/${entry.id}`);
+    const panel = page.getByTestId("check-run-panel");
+    await panel.waitFor();
+    // The worker of the test stack takes the job; the panel polls the JSON API until the run is done.
+    await page.locator('[data-testid="check-run-panel"][data-state="done"]').waitFor({ timeout: 180_000 });
+    await expect(panel.locator('[data-rule="video.hsync.period"][data-verdict="pass"]').count()).resolves.toBe(1);
+    await expect(panel.locator('[data-rule="layout.die.size"][data-verdict="pass"]').count()).resolves.toBe(1);
+    await expect(panel.getByText(/not signoff/).count()).resolves.toBe(1);
+    await expect(panel.locator("video").count()).resolves.toBe(0);
+    await panel.getByRole("button", { name: /Show the reference capture/ }).click();
+    await panel.getByTestId("reference-video").waitFor();
+    await screenshot(page, "entry-check-report");
+    await ctx.close();
+  });
+});
