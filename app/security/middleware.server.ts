@@ -10,7 +10,8 @@ import { checkMutationOrigin } from "./origin.server";
  * resource request before any loader or action:
  * 1. `securityHeaders` hands a fresh CSP nonce to entry.server through the router context and puts the security
  *    headers on whatever response comes back (error pages included: `next()` turns a thrown error into a response);
- * 2. `sameOriginMutations` refuses a cross-site mutation with 403 before the action runs.
+ * 2. `sameOriginMutations` refuses a cross-site mutation with 403 before the action runs, and a page action's
+ *    body that is not a form with 415.
  */
 export const securityHeaders: MiddlewareFunction<Response> = async ({ context }, next) => {
   const nonce = newNonce();
@@ -24,12 +25,22 @@ export const securityHeaders: MiddlewareFunction<Response> = async ({ context },
   return out;
 };
 
+const FORM_TYPES = ["application/x-www-form-urlencoded", "multipart/form-data"];
+
 export const sameOriginMutations: MiddlewareFunction<Response> = async ({ request }, next) => {
   const verdict = checkMutationOrigin(request);
-  if (verdict.ok) return next();
-  const message = "This request did not come from a Gatecrash page, so it was refused. Reload the page and try again.";
-  if (new URL(request.url).pathname.startsWith("/api/")) return apiError(403, "cross_origin", message);
-  throw data({ message }, { status: 403 });
+  const isApi = new URL(request.url).pathname.startsWith("/api/");
+  if (!verdict.ok) {
+    const message = "This request did not come from a Gatecrash page, so it was refused. Reload the page and try again.";
+    if (isApi) return apiError(403, "cross_origin", message);
+    throw data({ message }, { status: 403 });
+  }
+  // Page actions read forms: any other body (JSON, text/plain) is a 415, not a crash inside request.formData().
+  const type = request.headers.get("content-type");
+  if (!isApi && type && !["GET", "HEAD", "OPTIONS"].includes(request.method.toUpperCase()) && !FORM_TYPES.some((t) => type.toLowerCase().startsWith(t))) {
+    throw data({ message: "Pages accept form submissions only." }, { status: 415 });
+  }
+  return next();
 };
 
 /** In order: headers around everything, then the 503 for a database that is away, then the origin rule. */
