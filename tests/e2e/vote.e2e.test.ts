@@ -51,7 +51,7 @@ describe("showcase, audience vote and published results in the browser", () => {
 
     await page.goto(`${base}/vote`);
     await page.getByTestId("ranked-ballot").waitFor();
-    const titles = async () => page.getByTestId("ranked-item").locator("span.font-extrabold").allTextContents();
+    const titles = async () => page.getByTestId("ranked-item").locator("div.flex-1 > span.font-extrabold").allTextContents();
     const start = await titles();
     // Keyboard only: focus the first entry's "down" button and press Enter twice; focus follows the entry.
     await page.getByRole("button", { name: `Move ${start[0]} down` }).focus();
