@@ -23,11 +23,11 @@ export function composeMail(
     .map((p) =>
       typeof p === "string"
         ? `<p>${escapeHtml(p).replace(/\n/g, "<br>")}</p>`
-        : `<p><a href="${escapeHtml(p.href)}" style="color:#d9480f;font-weight:600">${escapeHtml(p.text)}</a></p>`,
+        : `<p><a href="${escapeHtml(p.href)}" style="color:#b23a0b;font-weight:600">${escapeHtml(p.text)}</a></p>`,
     )
     .join("\n");
   const html = `<!doctype html><html><body style="font-family:Inter,system-ui,sans-serif;color:#16131f;max-width:560px">
-<div style="font-weight:800;letter-spacing:.04em;color:#d9480f">GATECRASH</div>
+<div style="font-weight:800;letter-spacing:.04em;color:#b23a0b">GATECRASH</div>
 ${body}
 <p style="color:#6b6580;font-size:12px">You get this because of your account on Gatecrash.</p></body></html>`;
   return { to, subject, text, html, dedupeKey };
