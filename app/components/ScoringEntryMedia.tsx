@@ -1,23 +1,16 @@
-import { useState } from "react";
-import type { FlashNote } from "~/judging/presentation";
+import type { FlashSummary } from "~/showcase/figures";
+import { AudioCaution, PlayerGate } from "./PlayerGate";
 
 /**
- * The reference capture on the judge's entry page: nothing plays until the judge has read the
- * photosensitivity warning with the flash check's result, and the audio sits beside its PWM caution.
+ * The reference capture on the judge's entry page, behind the same photosensitivity gate as every other
+ * player (with the flash check's result); the audio sits beside its PWM caution.
  */
 export interface MediaArtifact {
   url: string;
   mediaType: string;
 }
 
-export function ScoringEntryMedia({ video, audio, still, flash }: { video: MediaArtifact | null; audio: MediaArtifact | null; still: MediaArtifact | null; flash: FlashNote }) {
-  const [accepted, setAccepted] = useState(false);
-  const flashText =
-    flash.verdict === "pass"
-      ? "The flash check on this reference capture passed (WCAG 2.2 SC 2.3.1 thresholds)."
-      : flash.verdict === "unknown"
-        ? "No flash check result yet for this capture: treat it as possibly flashing."
-        : `The flash check flagged this capture: up to ${flash.worstSecondFlashes ?? "several"} flashes in its worst second, above the WCAG 2.2 SC 2.3.1 limit of three.`;
+export function ScoringEntryMedia({ video, audio, still, flash }: { video: MediaArtifact | null; audio: MediaArtifact | null; still: MediaArtifact | null; flash: FlashSummary }) {
   if (!video && !audio) {
     return (
       <div className="card" data-testid="capture-not-ready">
@@ -32,31 +25,13 @@ export function ScoringEntryMedia({ video, audio, still, flash }: { video: Media
   }
   return (
     <div className="card space-y-4">
-      {!accepted ? (
-        <div role="region" aria-label="Photosensitivity warning" className={`rounded-md border px-4 py-3 ${flash.verdict === "pass" ? "border-line bg-paper" : "border-warn bg-warn-soft"}`}>
-          <p className="font-semibold">Photosensitivity warning</p>
-          <p className="mt-1 text-sm">Entries can flash and show fast-changing patterns. {flashText}</p>
-          <button type="button" className="btn-primary mt-3" onClick={() => setAccepted(true)}>
-            I have read this — show the capture
-          </button>
-        </div>
-      ) : (
-        <>
-          <p className={`text-sm ${flash.verdict === "pass" ? "text-ink-soft" : "font-semibold text-warn"}`}>{flashText}</p>
-          {video && (
-            <video controls preload="metadata" className="w-full max-w-2xl rounded border border-line bg-ink" aria-label="Reference capture">
-              <source src={video.url} type={video.mediaType} />
-            </video>
-          )}
-        </>
-      )}
+      <div className="max-w-2xl">
+        <PlayerGate label="Reference capture" sources={video ? [{ src: video.url, type: video.mediaType }] : []} poster={still?.url} flashVerdict={flash.verdict} flashStatement={flash.statement} />
+      </div>
       {audio && (
         <div>
-          <p className="text-sm text-ink-soft">
-            <strong>Audio caution:</strong> the audio pin is 1-bit PWM — a full-scale square wave with a DC offset. Listen through a low-pass filter and a
-            coupling capacitor, and start at low volume.
-          </p>
-          {accepted && <audio controls preload="none" src={audio.url} className="mt-2" aria-label="Reference audio" />}
+          <AudioCaution className="text-sm text-ink-soft" />
+          <audio controls preload="none" src={audio.url} className="mt-2" aria-label="Reference audio" />
         </div>
       )}
     </div>

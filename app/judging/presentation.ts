@@ -1,18 +1,6 @@
 /**
  * Reads the check run's figures for the judge's entry page, tolerant of steps that have not run yet. Pure.
  */
-export interface FlashNote {
-  verdict: "pass" | "warn" | "fail" | "unknown";
-  worstSecondFlashes: number | null;
-}
-
-export function flashNote(figures: Record<string, unknown> | null | undefined): FlashNote {
-  const f = figures?.flash as { verdict?: unknown; worstSecondFlashes?: unknown } | null | undefined;
-  if (!f || typeof f !== "object") return { verdict: "unknown", worstSecondFlashes: null };
-  const verdict = f.verdict === "pass" || f.verdict === "warn" || f.verdict === "fail" ? f.verdict : "unknown";
-  return { verdict, worstSecondFlashes: typeof f.worstSecondFlashes === "number" ? f.worstSecondFlashes : null };
-}
-
 export const FIGURE_SECTIONS = [
   ["source", "Source"],
   ["layout", "Layout"],

@@ -9,7 +9,8 @@ import { conflictReasonSchema } from "~/judging/forms";
 import { entryForJudge } from "~/judging/grid.server";
 import { pageCall } from "~/judging/http.server";
 import { declareConflict } from "~/judging/jury.server";
-import { FIGURE_SECTIONS, figureRows, flashNote } from "~/judging/presentation";
+import { FIGURE_SECTIONS, figureRows } from "~/judging/presentation";
+import { flashSummary } from "~/showcase/figures";
 import type { Route } from "./+types/judging.$competitionId.entries.$entryId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.entry.title ?? "Entry"} · Judging · Gatecrash` }];
@@ -42,7 +43,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
           passCount: check.findings.filter((f) => f.verdict === "pass").length,
         }
       : null,
-    flash: flashNote(figures),
+    flash: flashSummary(figures),
     stats: FIGURE_SECTIONS.map(([key, label]) => ({ label, rows: figureRows(figures, key) })).filter((s) => s.rows.length > 0),
     media: {
       video: pick("webm") ?? pick("mp4"),

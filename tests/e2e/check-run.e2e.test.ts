@@ -55,8 +55,8 @@ describe("the live check report on the entry page", () => {
     await expect(panel.locator('[data-rule="layout.die.size"][data-verdict="pass"]').count()).resolves.toBe(1);
     await expect(panel.getByText(/not signoff/).count()).resolves.toBe(1);
     await expect(panel.locator("video").count()).resolves.toBe(0);
-    await panel.getByRole("button", { name: /Show the reference capture/ }).click();
-    await panel.getByTestId("reference-video").waitFor();
+    await panel.getByRole("button", { name: /I understand/ }).click();
+    await panel.getByTestId("player-video").waitFor();
     await screenshot(page, "entry-check-report");
     await ctx.close();
   });

@@ -1,6 +1,7 @@
 import { useEffect, useState } from "react";
 import type { EntryCheck } from "~/conformance/report-types";
-import { AudioCaution, CaptureGate, type FlashSummary } from "./CaptureGate";
+import { flashSummary } from "~/showcase/figures";
+import { AudioCaution, PlayerGate } from "../PlayerGate";
 import { FindingsTable } from "./FindingsTable";
 import { LayoutViewer } from "./LayoutViewer";
 import { TimingTable, type SpeedFigures, type VideoFigures } from "./TimingTable";
@@ -54,11 +55,11 @@ export function CheckRunPanel({ entryId, initial, videoMode }: { entryId: string
   const fig = run.figures as {
     video?: VideoFigures | null;
     speed?: SpeedFigures | null;
-    flash?: FlashSummary | null;
     audio?: { rms: number; dcOffset: number; dominantHz: number | null } | null;
     skipped?: { step: string; reason: string }[];
   };
   const a = check.artifacts;
+  const flash = flashSummary(run.figures);
   return (
     <section aria-labelledby="check-title" className="card space-y-6" data-testid="check-run-panel" data-state={run.state}>
       <header className="flex flex-wrap items-center gap-3">
@@ -107,12 +108,15 @@ export function CheckRunPanel({ entryId, initial, videoMode }: { entryId: string
       {(a.webm || a.mp4) && (
         <div>
           <h3 className="mb-2 font-bold">Reference capture</h3>
-          <CaptureGate flash={fig.flash ?? null}>
-            <video controls preload="metadata" className="w-full max-w-2xl rounded-lg bg-ink" poster={a["first-frame"]?.url} data-testid="reference-video">
-              {a.webm && <source src={a.webm.url} type="video/webm" />}
-              {a.mp4 && <source src={a.mp4.url} type="video/mp4" />}
-            </video>
-          </CaptureGate>
+          <div className="max-w-2xl">
+            <PlayerGate
+              label="Reference capture"
+              sources={[a.webm && { src: a.webm.url, type: "video/webm" }, a.mp4 && { src: a.mp4.url, type: "video/mp4" }].filter((x): x is { src: string; type: string } => Boolean(x))}
+              poster={a["first-frame"]?.url}
+              flashVerdict={flash.verdict}
+              flashStatement={flash.statement}
+            />
+          </div>
         </div>
       )}
       {(a["first-frame"] || a["contact-sheet"]) && (
