@@ -4,8 +4,9 @@
  */
 import { benchGdsii } from "./bench/gdsii.bench";
 import { benchSimulation } from "./bench/simulation.bench";
+import { benchLoad } from "./bench/load.bench";
 
-const BENCHES: Record<string, () => Promise<void>> = { gdsii: benchGdsii, simulation: benchSimulation };
+const BENCHES: Record<string, () => Promise<void>> = { gdsii: benchGdsii, simulation: benchSimulation, load: benchLoad };
 
 const wanted = process.argv.slice(2).filter((a) => !a.startsWith("-"));
 const unknown = wanted.filter((w) => !BENCHES[w]);

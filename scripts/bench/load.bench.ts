@@ -1,0 +1,178 @@
+// Load on loopback with autocannon, beside a bare React Router page measured in the same run (ratios), then a
+// row count: no score or ballot lost or duplicated. Starts its own PostgreSQL, S3 fake, build and web server.
+// Run alone: npx tsx scripts/bench/load.bench.ts
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join, resolve } from "node:path";
+import autocannon from "autocannon";
+import { clusterFor, createDatabase, initCluster, startCluster, stopCluster } from "../lib/postgres";
+import { applyMigrations } from "../lib/migrate";
+import { freePort } from "../lib/ports";
+import { appEnv, startStack } from "../lib/stack";
+
+type Result = autocannon.Result;
+
+/** Status counts and one sample body per status, gathered by each request's onResponse. */
+const seen: Record<string, Record<number, number>> = {};
+const samples: Record<string, Record<number, string>> = {};
+function tally(name: string) {
+  seen[name] = {};
+  samples[name] = {};
+  return (status: number, body: string) => {
+    seen[name][status] = (seen[name][status] ?? 0) + 1;
+    samples[name][status] ??= body.slice(0, 200);
+  };
+}
+
+function summary(r: Result) {
+  return { rps: r.requests.average, p50: r.latency.p50, p90: r.latency.p90, p99: r.latency.p99, total: r["2xx"] + r.non2xx, errors: r.errors, timeouts: r.timeouts };
+}
+
+function print(name: string, r: Result, ref: Result) {
+  const s = summary(r);
+  const b = summary(ref);
+  const ratio = (x: number, y: number) => (y > 0 ? (x / y).toFixed(2) : "n/a");
+  console.log(
+    `${name.padEnd(34)} ${s.rps.toFixed(0).padStart(6)} req/s (×${ratio(s.rps, b.rps)} of bare)  p50 ${s.p50} ms (×${ratio(s.p50, b.p50)})  p90 ${s.p90} ms  p99 ${s.p99} ms (×${ratio(s.p99, b.p99)})  requests ${s.total}  statuses ${JSON.stringify(seen[name] ?? {})}  errors ${s.errors}  timeouts ${s.timeouts}`,
+  );
+}
+
+function cannon(opts: autocannon.Options): Promise<Result> {
+  return new Promise((resolve, reject) => {
+    autocannon(opts, (err, res) => (err ? reject(err) : resolve(res)));
+  });
+}
+
+export async function benchLoad(): Promise<void> {
+  const root = mkdtempSync(join(tmpdir(), "gatecrash-load-"));
+  spawnSync("chmod", ["755", root]);
+  const cluster = clusterFor(join(root, "pg"), await freePort());
+  initCluster(cluster);
+  startCluster(cluster);
+  let stack: { stop(): Promise<void> } | undefined;
+  const cleanups: (() => void)[] = [];
+  try {
+    createDatabase(cluster, "gatecrash_load");
+    const databaseUrl = cluster.url("gatecrash_load");
+    await applyMigrations(databaseUrl);
+    const ports = { web: await freePort(), s3: await freePort(), smtp: await freePort(), mailWeb: await freePort(), payments: await freePort() };
+    // The server build resolves its packages from node_modules, so it lives inside the repository.
+    const buildDir = resolve(".gatecrash", `load-build-${process.pid}`);
+    cleanups.push(() => rmSync(buildDir, { recursive: true, force: true }));
+    const env: NodeJS.ProcessEnv = { ...appEnv(ports, databaseUrl, join(root, "data")), NODE_ENV: "production", GATECRASH_BUILD_DIR: buildDir };
+    const built = spawnSync(process.execPath, ["node_modules/@react-router/dev/bin.js", "build"], { env, stdio: "ignore" });
+    if (built.status !== 0) throw new Error("build failed");
+    stack = await startStack({ ports, dataDir: join(root, "data"), env, services: ["s3", "web"], quiet: true });
+    Object.assign(process.env, env);
+
+    // Fixtures, made through the app's own modules against this stack's database.
+    const { makeCompo } = await import("../../tests/integration/showcase.fixtures");
+    const { grantEventRole, makeUser, sessionCookie } = await import("../../tests/support/users");
+    const { db, closeDb } = await import("../../app/db/client.server");
+    const schema = await import("../../app/db/schema");
+    const { generateVoteCodes } = await import("../../app/voting/voting.server");
+    const { eq, inArray, sql } = await import("drizzle-orm");
+
+    const ENTRIES = 20;
+    const compo = await makeCompo({ state: "judging", method: "borda", entryCount: ENTRIES });
+    const base = `http://127.0.0.1:${ports.web}`;
+    const origin = base;
+    const showcase = `/e/${compo.event.slug}/${compo.slug}/showcase`;
+    const bare = "/check-your-mail";
+
+    const duration = Number(process.env.LOAD_SECONDS ?? 8);
+    const bareRun = await cannon({ url: base + bare, connections: 20, duration });
+    const showcaseRun = await cannon({ url: base + showcase, connections: 20, duration });
+    const bareRun2 = await cannon({ url: base + bare, connections: 20, duration });
+
+    // 50 judges, each saving every cell of the grid once (version 0), all at the same time.
+    const JUDGES = 50;
+    const judges = [] as { id: string; cookie: string }[];
+    for (let i = 0; i < JUDGES; i++) {
+      const j = await makeUser({ name: `Load Judge ${i}` });
+      await grantEventRole(compo.event.id, j.id, "judge");
+      await db().insert(schema.juryAssignments).values({ competitionId: compo.competitionId, judgeUserId: j.id });
+      judges.push({ id: j.id, cookie: await sessionCookie(j) });
+    }
+    const cells = compo.entries.flatMap((e) => compo.criteria.map((c) => ({ entryId: e.id, criterionId: c.id })));
+    // Round robin over the judges: at any moment the 50 connections carry 50 different judges' saves.
+    const saves = cells.flatMap((cell) => judges.map((j, k) => ({ cookie: j.cookie, body: JSON.stringify({ ...cell, value: k % 11, version: 0 }) })));
+    let nextSave = 0;
+    const scoresPath = `/api/judging/${compo.competitionId}/scores`;
+    const scoreRun = await cannon({
+      url: base + scoresPath,
+      connections: JUDGES,
+      amount: saves.length,
+      headers: { "content-type": "application/json", origin },
+      requests: [
+        {
+          method: "POST",
+          onResponse: ((t) => (status: number, body: string) => t(status, body))(tally("judges' autosave")),
+          setupRequest: (req) => {
+            const s = saves[nextSave++ % saves.length];
+            return { ...req, headers: { ...req.headers, "content-type": "application/json", origin, cookie: s.cookie }, body: s.body };
+          },
+        },
+      ],
+    });
+
+    // A burst of 2,000 ballots, each with its own vote code.
+    const BALLOTS = 2000;
+    const codes: string[] = [];
+    while (codes.length < BALLOTS) codes.push(...(await generateVoteCodes(compo.competitionId, Math.min(500, BALLOTS - codes.length))));
+    const ranking = compo.entries.map((e) => e.id);
+    let nextCode = 0;
+    const ballotRun = await cannon({
+      url: `${base}/api/ballots/${compo.competitionId}`,
+      connections: 100,
+      amount: BALLOTS,
+      headers: { "content-type": "application/json", origin },
+      requests: [
+        {
+          method: "POST",
+          onResponse: ((t) => (status: number, body: string) => t(status, body))(tally("ballot burst")),
+          setupRequest: (req) => ({ ...req, body: JSON.stringify({ code: codes[nextCode++ % BALLOTS], ballot: { ranking } }) }),
+        },
+      ],
+    });
+
+    const ref = bareRun.requests.average >= bareRun2.requests.average ? bareRun : bareRun2;
+    console.log(`bare React Router page ${bare}: ${ref.requests.average.toFixed(0)} req/s, p50 ${ref.latency.p50} ms, p99 ${ref.latency.p99} ms (the better of two runs, before and after)`);
+    print("showcase page", showcaseRun, ref);
+    print("judges' autosave", scoreRun, ref);
+    print("ballot burst", ballotRun, ref);
+    for (const [name, bySt] of Object.entries(samples)) for (const [st, body] of Object.entries(bySt)) if (Number(st) >= 300) console.log(`  ${name} ${st}: ${body}`);
+
+    // Count rows: every save and every ballot exactly once.
+    const judgeIds = judges.map((j) => j.id);
+    const [{ n: scoreRows }] = await db()
+      .select({ n: sql<number>`count(*)::int` })
+      .from(schema.scores)
+      .innerJoin(schema.scoresheets, eq(schema.scoresheets.id, schema.scores.scoresheetId))
+      .where(inArray(schema.scoresheets.judgeUserId, judgeIds));
+    const [{ n: distinctCells }] = await db()
+      .select({ n: sql<number>`count(distinct (${schema.scoresheets.judgeUserId}, ${schema.scoresheets.entryId}, ${schema.scores.criterionId}))::int` })
+      .from(schema.scores)
+      .innerJoin(schema.scoresheets, eq(schema.scoresheets.id, schema.scores.scoresheetId))
+      .where(inArray(schema.scoresheets.judgeUserId, judgeIds));
+    const [{ n: ballotRows, codesUsed }] = await db()
+      .select({ n: sql<number>`count(*)::int`, codesUsed: sql<number>`count(distinct ${schema.ballots.voteCodeId})::int` })
+      .from(schema.ballots)
+      .where(eq(schema.ballots.competitionId, compo.competitionId));
+    const okScores = scoreRun["2xx"];
+    const okBallots = ballotRun["2xx"];
+    const expectedScores = saves.length;
+    console.log(`scores: ${okScores} saves answered 2xx of ${expectedScores} sent; ${scoreRows} rows, ${distinctCells} distinct cells → ${scoreRows === okScores && distinctCells === scoreRows ? "none lost or duplicated" : "MISMATCH"}`);
+    console.log(`ballots: ${okBallots} answered 2xx of ${BALLOTS}; ${ballotRows} rows, ${codesUsed} distinct codes → ${ballotRows === okBallots && codesUsed === ballotRows ? "none lost or duplicated" : "MISMATCH"}`);
+    await closeDb();
+    if (scoreRows !== okScores || distinctCells !== scoreRows || ballotRows !== okBallots || codesUsed !== ballotRows) process.exitCode = 1;
+  } finally {
+    await stack?.stop();
+    stopCluster(cluster);
+    rmSync(root, { recursive: true, force: true });
+    for (const c of cleanups) c();
+  }
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) await benchLoad();
