@@ -3,7 +3,7 @@ import { chmodSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import yazl from "yazl";
+import { zipOf } from "../tests/support/archives";
 import { DEMO_RULESET } from "~/conformance/ruleset";
 import { generateDemoLayout } from "~/gdsii/demo-layout";
 
@@ -13,17 +13,6 @@ import { generateDemoLayout } from "~/gdsii/demo-layout";
  */
 let dir: string;
 
-function zip(files: Record<string, string>): Promise<Buffer> {
-  const z = new yazl.ZipFile();
-  for (const [name, text] of Object.entries(files)) z.addBuffer(Buffer.from(text), name);
-  z.end();
-  const chunks: Buffer[] = [];
-  return new Promise((resolve, reject) => {
-    z.outputStream.on("data", (c: Buffer) => chunks.push(c));
-    z.outputStream.on("end", () => resolve(Buffer.concat(chunks)));
-    z.outputStream.on("error", reject);
-  });
-}
 
 // A design with the demo pin list whose only state is a counter of COUNTER_BITS flip-flops plus the VGA
 // counters (10 + 10 bits): VESA DMT 640x480@60 timing — 800 clocks per line (640+16+96+48),
@@ -58,8 +47,8 @@ function check(args: string[]) {
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), "gc-cli-"));
   chmodSync(dir, 0o755);
-  writeFileSync(join(dir, "good.zip"), await zip({ "top.v": design() }));
-  writeFileSync(join(dir, "latch.zip"), await zip({ "top.v": design("reg l; always @* if (x[0]) l = y[0];", "l") }));
+  writeFileSync(join(dir, "good.zip"), await zipOf({ "top.v": design() }));
+  writeFileSync(join(dir, "latch.zip"), await zipOf({ "top.v": design("reg l; always @* if (x[0]) l = y[0];", "l") }));
   const layout = generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 20, logicCells: 120, seed: 7 });
   writeFileSync(join(dir, "good.gds"), layout.bytes);
   writeFileSync(join(dir, "facts.json"), JSON.stringify(layout.facts));

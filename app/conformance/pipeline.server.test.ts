@@ -3,7 +3,7 @@ import { chmodSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "nod
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import yazl from "yazl";
+import { zipOf } from "../../tests/support/archives";
 import { designPath } from "../../demo/designs/index";
 import { runPipeline, type PipelineResult } from "./pipeline.server";
 import { DEMO_RULESET } from "./ruleset";
@@ -15,16 +15,6 @@ import { DEMO_RULESET } from "./ruleset";
 let dir: string;
 let first: PipelineResult;
 
-function zipOf(name: string, text: Buffer): Promise<Buffer> {
-  const z = new yazl.ZipFile();
-  z.addBuffer(text, name);
-  z.end();
-  const chunks: Buffer[] = [];
-  return new Promise((resolve) => {
-    z.outputStream.on("data", (c: Buffer) => chunks.push(c));
-    z.outputStream.on("end", () => resolve(Buffer.concat(chunks)));
-  });
-}
 
 function ffmpeg(args: string[]): void {
   const res = spawnSync("ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", ...args], { encoding: "utf8" });
@@ -34,7 +24,7 @@ function ffmpeg(args: string[]): void {
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), "gc-pipeline-"));
   chmodSync(dir, 0o755);
-  writeFileSync(join(dir, "b.zip"), await zipOf("stars.v", readFileSync(designPath("lfsr-stars"))));
+  writeFileSync(join(dir, "b.zip"), await zipOf({ "stars.v": readFileSync(designPath("lfsr-stars")) }));
   first = await runPipeline({ ruleset: DEMO_RULESET, workDir: join(dir, "w1"), bundlePath: join(dir, "b.zip"), simulate: true, frames: 12, encode: true });
 }, 300_000);
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -62,7 +52,7 @@ describe("the pipeline with an uploaded capture video", () => {
   }, 300_000);
 
   it("skips source checks and simulation when the pre-check refuses the source, and says why", async () => {
-    writeFileSync(join(dir, "bad.zip"), await zipOf("scroller.v", readFileSync(designPath("block-scroller"))));
+    writeFileSync(join(dir, "bad.zip"), await zipOf({ "scroller.v": readFileSync(designPath("block-scroller")) }));
     const result = await runPipeline({ ruleset: DEMO_RULESET, workDir: join(dir, "w4"), bundlePath: join(dir, "bad.zip"), simulate: true, frames: 2 });
     expect(result.verdict).toBe("fail");
     expect(result.findings.find((f) => f.rule === "precheck.system-call")?.measured).toBe("$display");

@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import yazl from "yazl";
+import { zipOf } from "../support/archives";
 import { closeDb } from "~/db/client.server";
 import { DEMO_RULESET } from "~/conformance/ruleset";
 import { queueCheckRun } from "~/conformance/queue.server";
@@ -22,16 +22,6 @@ afterAll(async () => {
   await closeDb();
 });
 
-function zipOf(name: string, text: Buffer): Promise<Buffer> {
-  const z = new yazl.ZipFile();
-  z.addBuffer(text, name);
-  z.end();
-  const chunks: Buffer[] = [];
-  return new Promise((resolve) => {
-    z.outputStream.on("data", (c: Buffer) => chunks.push(c));
-    z.outputStream.on("end", () => resolve(Buffer.concat(chunks)));
-  });
-}
 
 describe("the live check report on the entry page", () => {
   it("follows a queued run through the worker to its report, and plays the capture only after the warning", async () => {
@@ -39,7 +29,7 @@ describe("the live check report on the entry page", () => {
     const captain = await makeUser({ name: "Runner" });
     const { entry } = await makeCompetitionWithEntry({ eventId: event.id, captainId: captain.id, state: "open" });
     const upload = await makeCompleteUpload(entry.id, 1, [
-      { kind: "bundle", bytes: await zipOf("copper.v", readFileSync(designPath("copper-sine"))), filename: "copper.zip", mediaType: "application/zip" },
+      { kind: "bundle", bytes: await zipOf({ "copper.v": readFileSync(designPath("copper-sine")) }), filename: "copper.zip", mediaType: "application/zip" },
       { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "2x1", flipFlops: 120, logicCells: 500, seed: 9 }).bytes, filename: "copper.gds", mediaType: "application/vnd.gdsii" },
     ]);
     await queueCheckRun(upload.id);

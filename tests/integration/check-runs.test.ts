@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import yazl from "yazl";
+import { zipOf } from "../support/archives";
 import { closeDb, db } from "~/db/client.server";
 import { artifacts, checkRuns, findings } from "~/db/schema";
 import { DEMO_RULESET } from "~/conformance/ruleset";
@@ -16,16 +16,6 @@ import { makeCompetitionWithEntry, makeCompleteUpload } from "../support/entries
 import { callRoute } from "../support/routes";
 import { makeEvent, makeUser, request, sessionCookie } from "../support/users";
 
-function zipOf(name: string, text: Buffer): Promise<Buffer> {
-  const z = new yazl.ZipFile();
-  z.addBuffer(text, name);
-  z.end();
-  const chunks: Buffer[] = [];
-  return new Promise((resolve) => {
-    z.outputStream.on("data", (c: Buffer) => chunks.push(c));
-    z.outputStream.on("end", () => resolve(Buffer.concat(chunks)));
-  });
-}
 
 let setup: Awaited<ReturnType<typeof prepare>>;
 
@@ -34,7 +24,7 @@ async function prepare() {
   const captain = await makeUser();
   const stranger = await makeUser();
   const made = await makeCompetitionWithEntry({ eventId: event.id, captainId: captain.id, state: "open" });
-  const bundle = await zipOf("xor.v", readFileSync(designPath("xor-tide")));
+  const bundle = await zipOf({ "xor.v": readFileSync(designPath("xor-tide")) });
   const layout = generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 30, logicCells: 200, seed: 3 }).bytes;
   const upload = await makeCompleteUpload(made.entry.id, 1, [
     { kind: "bundle", bytes: bundle, filename: "xor.zip", mediaType: "application/zip" },
