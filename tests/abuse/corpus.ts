@@ -111,3 +111,40 @@ export function hostileBodies(): { name: string; form?: Record<string, string>; 
     { name: "broken JSON", raw: '{"files": [', type: "application/json" },
   ];
 }
+
+/** Designs that try to eat the machine: a 10^8-step generate loop, 10^5-deep recursive instantiation, a recursive constant function. */
+const PORTS = `input clk, input rst_n, output [1:0] r, output [1:0] g, output [1:0] b, output hs, output vs, output audio`;
+
+export const HOGS: Record<string, string> = {
+  "huge generate loop": `module ${DEMO_RULESET.topModule}(${PORTS});
+  genvar i;
+  wire [99999999:0] w;
+  generate for (i = 0; i < 100000000; i = i + 1) begin : g_loop
+    assign w[i] = clk ^ rst_n;
+  end endgenerate
+  assign r = w[1:0]; assign g = 0; assign b = 0; assign hs = 0; assign vs = 0; assign audio = 0;
+endmodule
+`,
+  "deep recursive instantiation": `module deep #(parameter N = 100000) (input a, output y);
+  generate if (N == 0) begin : leaf
+    assign y = a;
+  end else begin : more
+    deep #(.N(N - 1)) d (.a(a), .y(y));
+  end endgenerate
+endmodule
+module ${DEMO_RULESET.topModule}(${PORTS});
+  wire y;
+  deep d (.a(clk), .y(y));
+  assign r = {y, y}; assign g = 0; assign b = 0; assign hs = 0; assign vs = 0; assign audio = 0;
+endmodule
+`,
+  "recursive function": `module ${DEMO_RULESET.topModule}(${PORTS});
+  function automatic [31:0] f(input [31:0] n);
+    f = (n == 0) ? 0 : f(n - 1) + 1;
+  endfunction
+  localparam [31:0] K = f(32'd50000000);
+  assign r = K[1:0]; assign g = 0; assign b = 0; assign hs = 0; assign vs = 0; assign audio = 0;
+endmodule
+`,
+};
+

@@ -9,7 +9,7 @@ import { runPipeline } from "~/conformance/pipeline.server";
 import { closeDb } from "~/db/client.server";
 import { stopQueue } from "~/jobs/queue.server";
 import { hostileDesigns } from "../fixtures/hostile/designs";
-import { hostileBodies, hostileBundles, mutatedLayouts } from "../abuse/corpus";
+import { HOGS, hostileBodies, hostileBundles, mutatedLayouts } from "../abuse/corpus";
 import { appOrigin, builtListener } from "../security/listener";
 import { makeCompo } from "./showcase.fixtures";
 import { makeEntrySetup } from "./entries-support";
@@ -79,6 +79,20 @@ describe("hostile designs through the pipeline", () => {
       if (result.skipped.some((s) => s.step === "source")) refused += 1;
     }
     expect(refused).toBeGreaterThan(0);
+  }, 240_000);
+});
+
+describe("resource hogs through the pipeline with short limits", () => {
+  it("ends each in a fail report, not a crash or a hung run", async () => {
+    const ruleset: Ruleset = { ...RULES, simulation: { ...RULES.simulation, compileSeconds: 20, runSeconds: 10, memoryMb: 512, frames: 1 } };
+    const { writeZip } = await import("../fixtures/hostile/archives");
+    for (const [name, text] of Object.entries(HOGS)) {
+      const archive = join(work, `hog-${name.replace(/\W+/g, "-")}.zip`);
+      await writeZip(archive, [{ name: "top.v", data: text }]);
+      const result = await runPipeline({ ruleset, workDir: fresh(), bundlePath: archive, simulate: true, frames: 1, encode: false });
+      expect(result.verdict, name).toBe("fail");
+      expect(result.findings.some((f) => f.verdict === "fail"), name).toBe(true);
+    }
   }, 240_000);
 });
 
