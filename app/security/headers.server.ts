@@ -30,7 +30,8 @@ export function contentSecurityPolicy(nonce: string, opts: { dev?: boolean } = {
   const directives: Record<string, string[]> = {
     "default-src": ["'self'"],
     "script-src": ["'self'", `'nonce-${nonce}'`],
-    "style-src": ["'self'"],
+    // The Vite dev server injects the CSS as <style> elements; built pages load it as files.
+    "style-src": opts.dev ? ["'self'", "'unsafe-inline'"] : ["'self'"],
     // React renders a few computed positions and sizes as style attributes; no style elements from outside.
     "style-src-attr": ["'unsafe-inline'"],
     "img-src": ["'self'", "blob:", "data:"],
