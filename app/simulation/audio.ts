@@ -45,6 +45,7 @@ export function encodeWav(samples: Int16Array, sampleRate: number): Buffer {
   return buf;
 }
 
+/** Radix-2 FFT in place (length a power of two), magnitudes of the first half. */
 function fftMagnitudes(re: Float64Array): Float64Array {
   const n = re.length;
   const im = new Float64Array(n);
@@ -52,22 +53,26 @@ function fftMagnitudes(re: Float64Array): Float64Array {
     let bit = n >> 1;
     for (; j & bit; bit >>= 1) j ^= bit;
     j ^= bit;
-    if (i < j) [re[i], re[j]] = [re[j], re[i]];
+    if (i < j) { const t = re[i]; re[i] = re[j]; re[j] = t; }
   }
+  // twiddles once for the largest stage; stage `len` uses every (n / len)-th of them
+  const half = n >> 1;
+  const cos = new Float64Array(half), sin = new Float64Array(half);
+  for (let k = 0; k < half; k++) { cos[k] = Math.cos((-2 * Math.PI * k) / n); sin[k] = Math.sin((-2 * Math.PI * k) / n); }
   for (let len = 2; len <= n; len <<= 1) {
-    const ang = (-2 * Math.PI) / len;
+    const step = n / len, mid = len >> 1;
     for (let i = 0; i < n; i += len) {
-      for (let k = 0; k < len / 2; k++) {
-        const wr = Math.cos(ang * k), wi = Math.sin(ang * k);
-        const a = i + k, b = a + len / 2;
+      for (let k = 0; k < mid; k++) {
+        const wr = cos[k * step], wi = sin[k * step];
+        const a = i + k, b = a + mid;
         const xr = re[b] * wr - im[b] * wi, xi = re[b] * wi + im[b] * wr;
         re[b] = re[a] - xr; im[b] = im[a] - xi;
         re[a] += xr; im[a] += xi;
       }
     }
   }
-  const mag = new Float64Array(n / 2);
-  for (let i = 0; i < n / 2; i++) mag[i] = Math.hypot(re[i], im[i]);
+  const mag = new Float64Array(half);
+  for (let i = 0; i < half; i++) mag[i] = Math.hypot(re[i], im[i]);
   return mag;
 }
 

@@ -22,16 +22,33 @@ const VARIANTS = {
   lineCount: "`define V_FRONT 9",
   blankColour: "`define BLANK_COLOUR",
   noVsync: "`define NO_VSYNC",
+  fallingGreen: "`define FALLING_GREEN",
 } as const;
 type Variant = keyof typeof VARIANTS;
 
-async function capture(name: string, defines: string, encode = false, file = "gc_pattern.v", ruleset = DEMO_RULESET): Promise<ReferenceCapture> {
+async function capture(name: string, defines: string, encode = false, file = "gc_pattern.v", ruleset = DEMO_RULESET, forceBothEdges = false): Promise<ReferenceCapture> {
   const src = join(root, name, "src");
   execFileSync("mkdir", ["-p", src]);
   writeFileSync(join(src, "variant.v"), `${defines}\n`);
   copyFileSync(join(FIXTURES, file), join(src, "design.v"));
-  return runReferenceCapture({ sourceDir: src, verilogFiles: ["variant.v", "design.v"], ruleset, workDir: join(root, name, "work"), frames: 4, encode });
+  return runReferenceCapture({ sourceDir: src, verilogFiles: ["variant.v", "design.v"], ruleset, workDir: join(root, name, "work"), frames: 4, encode, forceBothEdges });
 }
+
+/** Pixels of a captured frame that differ from gc_pattern.v's formula; `rgb` is the frame as rgb24. */
+function patternMismatches(rgb: Uint8Array): number {
+  const frameNo = rgb[0] / 85; // r = x[7:6] + frame[1:0] at x = 0
+  let mismatches = 0;
+  for (let y = 0; y < 480; y++) {
+    for (let x = 0; x < 640; x++) {
+      const r = (((x >> 6) & 3) + frameNo) & 3, g = (y >> 6) & 3, b = ((x >> 5) ^ (y >> 5)) & 1 ? 3 : 1;
+      const i = (y * 640 + x) * 3;
+      if (rgb[i] !== r * 85 || rgb[i + 1] !== g * 85 || rgb[i + 2] !== b * 85) mismatches++;
+    }
+  }
+  return mismatches;
+}
+
+const framesFile = (name: string) => join(root, name, "work", "build", "out", "frames.rgb");
 
 const results = new Map<Variant, ReferenceCapture>();
 beforeAll(async () => {
@@ -62,16 +79,7 @@ describe("reference capture of a correct design", () => {
     // decode the PNG with ffmpeg, an independent PNG reader
     const rgb = execFileSync("ffmpeg", ["-v", "error", "-i", c.files.firstFramePng!, "-f", "rawvideo", "-pix_fmt", "rgb24", "-"]);
     expect(rgb.length).toBe(640 * 480 * 3);
-    const frameNo = rgb[0] / 85; // r = x[7:6] + frame[1:0] at x = 0
-    let mismatches = 0;
-    for (let y = 0; y < 480; y++) {
-      for (let x = 0; x < 640; x++) {
-        const r = (((x >> 6) & 3) + frameNo) & 3, g = (y >> 6) & 3, b = ((x >> 5) ^ (y >> 5)) & 1 ? 3 : 1;
-        const i = (y * 640 + x) * 3;
-        if (rgb[i] !== r * 85 || rgb[i + 1] !== g * 85 || rgb[i + 2] !== b * 85) mismatches++;
-      }
-    }
-    expect(mismatches).toBe(0);
+    expect(patternMismatches(rgb)).toBe(0);
     expect(statSync(c.files.contactSheetPng!).size).toBeGreaterThan(1000);
   });
 
@@ -137,6 +145,26 @@ describe("designs with one fault each", () => {
     expect(failed(c.findings)).toEqual(["video.vsync.missing"]);
     expect(c.video!.hsync).toEqual({ periodClocks: 800, pulseClocks: 96, polarity: "negative" });
     expect(c.files.firstFramePng).toBeNull();
+  });
+});
+
+describe("evaluating only the rising clock edge", () => {
+  it("is chosen for a design that only reacts to the rising edge, and changes no byte of the capture", async () => {
+    const full = await capture("correctBothEdges", VARIANTS.correct, false, "gc_pattern.v", DEMO_RULESET, true);
+    expect(results.get("correct")!.speed!.edgeMode).toBe("rising-only");
+    expect(full.speed!.edgeMode).toBe("both-edges");
+    expect(readFileSync(framesFile("correct")).equals(readFileSync(framesFile("correctBothEdges")))).toBe(true);
+    expect(full.findings).toEqual(results.get("correct")!.findings);
+  }, 120_000);
+
+  it("is not chosen when a register is clocked on the falling edge, and that register still works", () => {
+    const c = results.get("fallingGreen")!;
+    expect(c.speed!.edgeMode).toBe("both-edges");
+    expect(failed(c.findings)).toEqual([]);
+    const frames = readFileSync(framesFile("fallingGreen"));
+    const frameBytes = 640 * 480 * 3;
+    expect(frames.length).toBe(4 * frameBytes);
+    for (let i = 0; i < 4; i++) expect(patternMismatches(frames.subarray(i * frameBytes, (i + 1) * frameBytes))).toBe(0);
   });
 });
 

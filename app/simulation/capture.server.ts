@@ -6,10 +6,12 @@ import { videoMode } from "~/conformance/video-modes";
 import { audioFigures, encodeWav, pcmFromBuffer, waveformSvg, type AudioFigures } from "./audio";
 import { simulateDesign, type SimulationFailureReason, type SimulationFailureStage } from "./build.server";
 import type { LumaSequence } from "./compare";
+import type { EdgeMode } from "./edge-mode";
 import { encodePreview } from "./encode.server";
-import { FlashAnalyzer, flashFindings, flashGrid, type FlashReport } from "./flash";
-import { RawFrameFile } from "./frame-file.server";
-import { contactSheet, encodePng, lumaGrid, spreadIndices } from "./frames";
+import { flashFindings, type FlashReport } from "./flash";
+import { COMPARE_GRID, FrameDigest } from "./frame-digest";
+import { followFrames, RawFrameFile } from "./frame-file.server";
+import { encodePng, thumbnailSheet } from "./frames";
 import { AUDIO_SAMPLE_RATE } from "./harness";
 import { measureVideo, timingFindings, type VideoTiming } from "./timing";
 
@@ -25,6 +27,8 @@ export interface ReferenceCaptureRequest {
   workDir: string;
   frames?: number;
   encode?: boolean;
+  /** see SimulationRequest.forceBothEdges */
+  forceBothEdges?: boolean;
 }
 
 export interface ReferenceCapture {
@@ -50,6 +54,8 @@ export interface ReferenceCapture {
     /** wall time of the verilator build and of the sandboxed run, as seen from outside */
     buildMs: number;
     runMs: number;
+    /** "rising-only" when the falling clock edge could be skipped (edge-mode.ts) */
+    edgeMode: EdgeMode;
   } | null;
   flash: FlashReport | null;
   /** 32×24 luma per frame, for comparing an uploaded capture (compare-video.server.ts) */
@@ -69,10 +75,6 @@ const FAILURE_TEXT: Record<SimulationFailureStage, Record<SimulationFailureReaso
   },
 };
 
-export const CONTACT_SHEET_FRAMES = 12;
-export const COMPARE_GRID = { width: 32, height: 24 };
-const FLASH_CELL = 4; // 640×480 → 160×120 cells
-
 function emptyCapture(findings: Finding[]): ReferenceCapture {
   return {
     findings,
@@ -89,7 +91,15 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
   const { ruleset } = req;
   const frames = req.frames ?? ruleset.simulation.frames;
   const mode = videoMode(ruleset.videoMode);
-  const outcome = await simulateDesign({ ...req, frames });
+  // frames are digested while the simulation runs (second core); the nominal frame rate is replaced by the
+  // measured one once the run is over
+  const nominalFps = ruleset.clock.frequencyHz / (mode.h.total * mode.v.total);
+  const digest = new FrameDigest(mode.h.active, mode.v.active, frames, ruleset.flashCheck.enabled ? nominalFps : null);
+  const outcome = await simulateDesign({
+    ...req,
+    frames,
+    watchFrames: (path, ended) => followFrames(path, mode.h.active, mode.v.active, ended, (img, i) => digest.push(img, i)),
+  });
   if (!outcome.ok) {
     const timedOut = outcome.reason !== "failed";
     return emptyCapture([{
@@ -120,6 +130,7 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
       realTimeMultiple: cyclesPerSecond / ruleset.clock.frequencyHz,
       buildMs: outcome.run.compileMs,
       runMs: outcome.run.runMs,
+      edgeMode: outcome.run.edgeMode,
     },
   };
 
@@ -130,38 +141,27 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
   capture.files.waveformSvg = join(outDir, "waveform.svg");
   writeFileSync(capture.files.waveformSvg, waveformSvg(pcm, AUDIO_SAMPLE_RATE));
 
-  const file = new RawFrameFile(framesPath, mode.h.active, mode.v.active);
   const fps = ruleset.clock.frequencyHz / (summary.vsync.periodMax || mode.h.total * mode.v.total);
-  try {
-    if (file.count > 0) {
-      capture.files.firstFramePng = join(outDir, "first-frame.png");
-      writeFileSync(capture.files.firstFramePng, encodePng(file.read(0)));
+  if (digest.first) {
+    capture.files.firstFramePng = join(outDir, "first-frame.png");
+    writeFileSync(capture.files.firstFramePng, encodePng(digest.first));
+    const file = new RawFrameFile(framesPath, mode.h.active, mode.v.active);
+    try {
       capture.files.contactSheetPng = join(outDir, "contact-sheet.png");
-      const picks = spreadIndices(file.count, CONTACT_SHEET_FRAMES).map((i) => file.read(i));
-      writeFileSync(capture.files.contactSheetPng, encodePng(contactSheet(picks)));
-
-      const luma: Uint8Array[] = [];
-      const analyzer = ruleset.flashCheck.enabled ? new FlashAnalyzer(mode.h.active / FLASH_CELL, mode.v.active / FLASH_CELL, fps) : null;
-      for (let i = 0; i < file.count; i++) {
-        const img = file.read(i);
-        luma.push(lumaGrid(img, COMPARE_GRID.width, COMPARE_GRID.height));
-        analyzer?.push(flashGrid(img, FLASH_CELL));
-      }
-      capture.referenceLuma = { ...COMPARE_GRID, fps, frames: luma };
-      if (analyzer) {
-        capture.flash = analyzer.report();
-        findings.push(...flashFindings(capture.flash, ruleset, "reference capture", mode.h.active, mode.v.active));
-      }
+      writeFileSync(capture.files.contactSheetPng, encodePng(thumbnailSheet(digest.thumbnails((i) => file.read(i)))));
+    } finally {
+      file.close();
     }
-  } finally {
-    file.close();
+    capture.referenceLuma = { ...COMPARE_GRID, fps, frames: digest.luma };
+    capture.flash = digest.flashReport(fps);
+    if (capture.flash) findings.push(...flashFindings(capture.flash, ruleset, "reference capture", mode.h.active, mode.v.active));
   }
 
-  if (req.encode && file.count > 0) {
+  if (req.encode && digest.count > 0) {
     const preview = await encodePreview({
       framesPath, wavPath: capture.files.wav, width: mode.h.active, height: mode.v.active,
       frameRate: `${Math.round(ruleset.clock.frequencyHz)}/${summary.vsync.periodMax}`,
-      frames: file.count, durationSeconds: file.count / fps,
+      frames: digest.count, durationSeconds: digest.count / fps,
     });
     capture.files.webm = preview.webm;
     capture.files.mp4 = preview.mp4;

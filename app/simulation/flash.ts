@@ -139,9 +139,8 @@ interface FrameEvent {
   region: FlashRegion;
 }
 
-/** Largest sum of `mask` over any fw×fh window, via a summed-area table. */
-function worstWindow(mask: Uint8Array, w: number, h: number, fw: number, fh: number): { sum: number; x: number; y: number } {
-  const sat = new Int32Array((w + 1) * (h + 1));
+/** Largest sum of `mask` over any fw×fh window, via a summed-area table (`sat`: (w+1)×(h+1), reused). */
+function worstWindow(mask: Uint8Array, w: number, h: number, fw: number, fh: number, sat: Int32Array): { sum: number; x: number; y: number } {
   for (let y = 0; y < h; y++) {
     let row = 0;
     for (let x = 0; x < w; x++) {
@@ -157,6 +156,15 @@ function worstWindow(mask: Uint8Array, w: number, h: number, fw: number, fh: num
     }
   }
   return best;
+}
+
+/** Whether a cell of linear RGB is a saturated red: R/(R+G+B) ≥ 0.8 on encoded values (see above). */
+function saturatedRed(rl: number, gl: number, bl: number): boolean {
+  // encoding is monotonic: unless red is the largest channel, R/(R+G+B) is at most one half
+  if (rl <= gl || rl <= bl) return false;
+  const re = linearToSrgb(rl), ge = linearToSrgb(gl), be = linearToSrgb(bl);
+  const sum = re + ge + be;
+  return sum > 1e-3 && re / sum >= SATURATED_RED_SHARE;
 }
 
 /** Streaming analyser: push frames in order, then read the report. */
@@ -178,6 +186,7 @@ export class FlashAnalyzer {
   private readonly redMask: Uint8Array;
   private readonly generalEvents: FrameEvent[] = [];
   private readonly redEvents: FrameEvent[] = [];
+  private readonly sat: Int32Array;
   private peakGeneral = 0;
   private peakRed = 0;
 
@@ -196,6 +205,7 @@ export class FlashAnalyzer {
     this.refRed = new Uint8Array(this.cells);
     this.generalMask = new Uint8Array(this.cells);
     this.redMask = new Uint8Array(this.cells);
+    this.sat = new Int32Array((width + 1) * (height + 1));
   }
 
   push(grid: FlashGrid): void {
@@ -205,38 +215,41 @@ export class FlashAnalyzer {
     const first = this.frame === 0;
     this.generalMask.fill(0);
     this.redMask.fill(0);
+    let generalCount = 0, redCount = 0;
     for (let c = 0; c < this.cells; c++) {
       const rl = grid.linear[c * 3], gl = grid.linear[c * 3 + 1], bl = grid.linear[c * 3 + 2];
       const lum = 0.2126 * rl + 0.7152 * gl + 0.0722 * bl;
-      const re = linearToSrgb(rl), ge = linearToSrgb(gl), be = linearToSrgb(bl);
-      const sum = re + ge + be;
-      const isRed = sum > 1e-3 && re / sum >= SATURATED_RED_SHARE ? 1 : 0;
-      const [u, v] = chromaticity(rl, gl, bl);
+      const isRed = saturatedRed(rl, gl, bl) ? 1 : 0;
       if (first) {
         this.lo[c] = this.hi[c] = lum;
-        this.refU[c] = u; this.refV[c] = v; this.refRed[c] = isRed;
+        [this.refU[c], this.refV[c]] = chromaticity(rl, gl, bl);
+        this.refRed[c] = isRed;
         continue;
       }
       if (lum < this.lo[c]) this.lo[c] = lum;
       if (lum > this.hi[c]) this.hi[c] = lum;
       if (this.dir[c] !== 1 && lum - this.lo[c] >= GENERAL_CHANGE && this.lo[c] < DARKER_BELOW) {
-        this.dir[c] = 1; this.lo[c] = this.hi[c] = lum; this.generalMask[c] = 1;
+        this.dir[c] = 1; this.lo[c] = this.hi[c] = lum; this.generalMask[c] = 1; generalCount++;
       } else if (this.dir[c] !== -1 && this.hi[c] - lum >= GENERAL_CHANGE && lum < DARKER_BELOW) {
-        this.dir[c] = -1; this.lo[c] = this.hi[c] = lum; this.generalMask[c] = 1;
+        this.dir[c] = -1; this.lo[c] = this.hi[c] = lum; this.generalMask[c] = 1; generalCount++;
       }
-      if ((isRed || this.refRed[c]) && Math.hypot(u - this.refU[c], v - this.refV[c]) > RED_CHROMA_CHANGE) {
-        this.refU[c] = u; this.refV[c] = v; this.refRed[c] = isRed; this.redMask[c] = 1;
+      // chromaticity only matters when a saturated red is involved on either side
+      if (isRed || this.refRed[c]) {
+        const [u, v] = chromaticity(rl, gl, bl);
+        if (Math.hypot(u - this.refU[c], v - this.refV[c]) > RED_CHROMA_CHANGE) {
+          this.refU[c] = u; this.refV[c] = v; this.refRed[c] = isRed; this.redMask[c] = 1; redCount++;
+        }
       }
     }
     if (!first) {
-      this.peakGeneral = Math.max(this.peakGeneral, this.record(this.generalMask, this.generalEvents));
-      this.peakRed = Math.max(this.peakRed, this.record(this.redMask, this.redEvents));
+      this.peakGeneral = Math.max(this.peakGeneral, generalCount ? this.record(this.generalMask, this.generalEvents) : 0);
+      this.peakRed = Math.max(this.peakRed, redCount ? this.record(this.redMask, this.redEvents) : 0);
     }
     this.frame++;
   }
 
   private record(mask: Uint8Array, events: FrameEvent[]): number {
-    const best = worstWindow(mask, this.width, this.height, this.fw, this.fh);
+    const best = worstWindow(mask, this.width, this.height, this.fw, this.fh, this.sat);
     const share = best.sum / (this.fw * this.fh);
     if (best.sum > this.threshold) {
       events.push({
@@ -248,11 +261,11 @@ export class FlashAnalyzer {
     return share;
   }
 
-  private summarise(events: FrameEvent[], peak: number): FlashKindReport {
+  private summarise(events: FrameEvent[], peak: number, fps: number): FlashKindReport {
     let worst = 0, worstStart = -1;
     for (let i = 0, j = 0; i < events.length; i++) {
       // events j..i lie inside one second ending at event i
-      while ((events[i].frame - events[j].frame) / this.fps >= 1) j++;
+      while ((events[i].frame - events[j].frame) / fps >= 1) j++;
       if (i - j + 1 > worst) { worst = i - j + 1; worstStart = j; }
     }
     let region: FlashRegion | null = null;
@@ -263,19 +276,21 @@ export class FlashAnalyzer {
     }
     return {
       worstFlashes: worst / 2,
-      worstSecondStartS: worstStart >= 0 ? events[worstStart].frame / this.fps : null,
+      worstSecondStartS: worstStart >= 0 ? events[worstStart].frame / fps : null,
       region,
       peakFieldShare: peak,
       passes: worst <= MAX_TRANSITIONS_PER_SECOND,
     };
   }
 
-  report(): FlashReport {
-    const general = this.summarise(this.generalEvents, this.peakGeneral);
-    const red = this.summarise(this.redEvents, this.peakRed);
+  /** `fps`: the frame rate measured once all frames are in, when it differs from the one assumed at the start. */
+  report(fps = this.fps): FlashReport {
+    if (!(fps > 0) || !Number.isFinite(fps)) throw new FlashInputError(`frame rate must be positive, not ${fps}`);
+    const general = this.summarise(this.generalEvents, this.peakGeneral, fps);
+    const red = this.summarise(this.redEvents, this.peakRed, fps);
     return {
       framesAnalysed: this.frame,
-      fps: this.fps,
+      fps,
       grid: { width: this.width, height: this.height },
       field: { width: this.fw, height: this.fh, areaShare: FIELD_AREA_SHARE },
       general,

@@ -25,7 +25,9 @@ export function encodePng(img: RgbImage): Buffer {
   checkImage(img);
   const png = new PNG({ width: img.width, height: img.height, colorType: 2, inputColorType: 2, inputHasAlpha: false });
   png.data = Buffer.from(img.data.buffer, img.data.byteOffset, img.data.byteLength);
-  return PNG.sync.write(png, { colorType: 2, inputColorType: 2, inputHasAlpha: false });
+  // one fixed row filter (Sub) instead of trying all five per row: a third of the time, a smaller file
+  // on our flat-coloured frames than unfiltered rows
+  return PNG.sync.write(png, { colorType: 2, inputColorType: 2, inputHasAlpha: false, filterType: 1 });
 }
 
 /** `count` frame indices spread evenly from the first to the last of `total` frames. */
@@ -66,10 +68,16 @@ export function shrink(img: RgbImage, factor: number): RgbImage {
   return { width: w, height: h, data: out };
 }
 
-/** Thumbnails in a grid on a dark background with a gap between them. */
-export function contactSheet(frames: RgbImage[], columns = 4, factor = 4, gap = 4): RgbImage {
-  if (frames.length === 0) throw new FrameError("a contact sheet needs at least one frame");
-  const thumbs = frames.map((f) => shrink(f, factor));
+export const THUMBNAIL_FACTOR = 4;
+
+/** Frames shrunk to thumbnails in a grid on a dark background with a gap between them. */
+export function contactSheet(frames: RgbImage[], columns = 4, factor = THUMBNAIL_FACTOR, gap = 4): RgbImage {
+  return thumbnailSheet(frames.map((f) => shrink(f, factor)), columns, gap);
+}
+
+/** Thumbnails already shrunk, laid out as contactSheet does. */
+export function thumbnailSheet(thumbs: RgbImage[], columns = 4, gap = 4): RgbImage {
+  if (thumbs.length === 0) throw new FrameError("a contact sheet needs at least one frame");
   const tw = thumbs[0].width;
   const th = thumbs[0].height;
   const cols = Math.min(columns, thumbs.length);

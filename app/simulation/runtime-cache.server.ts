@@ -1,4 +1,5 @@
 import { chmodSync, copyFileSync, existsSync, mkdirSync, mkdtempSync, renameSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { createHash } from "node:crypto";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { runSandboxed } from "~/sandbox/sandbox.server";
@@ -13,12 +14,12 @@ const VERILATOR_INCLUDE = "/usr/share/verilator/include";
 
 let pending: Promise<string | null> | null = null;
 
-function cacheKey(): string {
+function cacheKey(flags: string): string {
   const st = statSync(join(VERILATOR_INCLUDE, "verilated.cpp"));
-  return `${Math.round(st.mtimeMs)}-${st.size}`;
+  return `${Math.round(st.mtimeMs)}-${st.size}-${createHash("sha256").update(flags).digest("hex").slice(0, 8)}`;
 }
 
-async function build(target: string): Promise<string | null> {
+async function build(target: string, flags: string): Promise<string | null> {
   const work = mkdtempSync(join(tmpdir(), "gc-vlrt-"));
   chmodSync(work, 0o755);
   try {
@@ -26,7 +27,7 @@ async function build(target: string): Promise<string | null> {
     writeFileSync(join(work, "main.cpp"), '#include "Vtop.h"\nint main() { Vtop top; top.eval(); return 0; }\n');
     const result = await runSandboxed({
       command: "/bin/sh",
-      args: ["-c", "verilator --cc --exe --top-module gc_runtime --prefix Vtop -Mdir obj gc_runtime.v main.cpp && make -s -C obj -f Vtop.mk -j 2 verilated.o verilated_threads.o"],
+      args: ["-c", 'verilator --cc --exe --top-module gc_runtime --prefix Vtop -Mdir obj gc_runtime.v main.cpp && make -s -C obj -f Vtop.mk -j 2 OPT_GLOBAL="$1" verilated.o verilated_threads.o', "sh", flags],
       buildDir: work,
       limits: { wallSeconds: 300, cpuSeconds: 300 },
     });
@@ -42,11 +43,14 @@ async function build(target: string): Promise<string | null> {
   }
 }
 
-/** Folder holding the prebuilt runtime objects, or null if they could not be built (builds then compile them). */
-export function verilatorRuntime(): Promise<string | null> {
+/**
+ * Folder holding the prebuilt runtime objects, or null if they could not be built (builds then compile
+ * them). `flags` are the C++ flags they are built with; a change of flags is a new cache entry.
+ */
+export function verilatorRuntime(flags: string): Promise<string | null> {
   if (!pending) {
-    const target = join(tmpdir(), `gatecrash-verilator-runtime-${cacheKey()}`);
-    pending = RUNTIME_OBJECTS.every((n) => existsSync(join(target, n))) ? Promise.resolve(target) : build(target);
+    const target = join(tmpdir(), `gatecrash-verilator-runtime-${cacheKey(flags)}`);
+    pending = RUNTIME_OBJECTS.every((n) => existsSync(join(target, n))) ? Promise.resolve(target) : build(target, flags);
   }
   return pending;
 }
