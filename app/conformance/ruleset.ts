@@ -32,7 +32,8 @@ const uploadLimitsSchema = z.object({
 });
 
 const simulationSchema = z.object({
-  frames: z.number().int().min(1).max(600).default(4),
+  // one second at 60 Hz: WCAG 2.3.1 counts flashes in any one-second window, which a shorter capture cannot show
+  frames: z.number().int().min(1).max(600).default(60),
   resetCycles: z.number().int().min(1).max(1_000_000).default(20),
   compileSeconds: z.number().int().min(5).max(600).default(120),
   runSeconds: z.number().int().min(5).max(3600).default(120),

@@ -72,7 +72,7 @@ function fftMagnitudes(re: Float64Array): Float64Array {
     }
   }
   const mag = new Float64Array(half);
-  for (let i = 0; i < half; i++) mag[i] = Math.hypot(re[i], im[i]);
+  for (let i = 0; i < half; i++) mag[i] = Math.sqrt(re[i] * re[i] + im[i] * im[i]);
   return mag;
 }
 
@@ -88,10 +88,10 @@ export function audioFigures(samples: Int16Array, sampleRate: number): AudioFigu
   const rms = Math.sqrt(sq / samples.length);
   if (rms < 1e-4 || samples.length < 256) return { rms, dcOffset: dc, dominantHz: null };
 
-  // Hann-windowed, zero-padded 4x for a finer grid, peak refined by a parabola through three bins.
+  // Hann-windowed, zero-padded 2x for a finer grid, peak refined by a parabola through three bins.
   const used = Math.min(samples.length, MAX_ANALYSED);
   let n = 1;
-  while (n < used * 4) n <<= 1;
+  while (n < used * 2) n <<= 1;
   const re = new Float64Array(n);
   for (let i = 0; i < used; i++) re[i] = (samples[i] / 32768 - dc) * (0.5 - 0.5 * Math.cos((2 * Math.PI * i) / (used - 1)));
   const mag = fftMagnitudes(re);

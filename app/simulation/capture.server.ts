@@ -27,8 +27,9 @@ export interface ReferenceCaptureRequest {
   workDir: string;
   frames?: number;
   encode?: boolean;
-  /** see SimulationRequest.forceBothEdges */
+  /** see SimulationRequest */
   forceBothEdges?: boolean;
+  profileGuided?: boolean;
 }
 
 export interface ReferenceCapture {
@@ -56,6 +57,7 @@ export interface ReferenceCapture {
     runMs: number;
     /** "rising-only" when the falling clock edge could be skipped (edge-mode.ts) */
     edgeMode: EdgeMode;
+    profileGuided: boolean;
   } | null;
   flash: FlashReport | null;
   /** 32×24 luma per frame, for comparing an uploaded capture (compare-video.server.ts) */
@@ -131,6 +133,7 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
       buildMs: outcome.run.compileMs,
       runMs: outcome.run.runMs,
       edgeMode: outcome.run.edgeMode,
+      profileGuided: outcome.run.profileGuided,
     },
   };
 

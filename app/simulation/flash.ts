@@ -314,6 +314,10 @@ export function flashFindings(report: FlashReport, ruleset: Ruleset, subject = "
     ["general", "general flashes", report.general],
     ["red", "red flashes", report.red],
   ] as const;
+  const seconds = report.framesAnalysed / report.fps;
+  const short = seconds < 1
+    ? `; only ${report.framesAnalysed} frames (${seconds.toFixed(2)} s) were analysed, less than the one-second window WCAG counts in: flashing beyond them is not seen`
+    : "";
   return kinds.map(([key, label, k]) => ({
     step: "flash" as const,
     rule: `flash.${key}`,
@@ -321,9 +325,9 @@ export function flashFindings(report: FlashReport, ruleset: Ruleset, subject = "
     title: `${label} per second (WCAG 2.2 SC 2.3.1)`,
     measured: k.worstFlashes,
     limit: MAX_TRANSITIONS_PER_SECOND / 2,
-    evidence: k.worstSecondStartS === null
+    evidence: (k.worstSecondStartS === null
       ? `no ${label} over 25 % of a 10° field in ${report.framesAnalysed} frames of the ${subject}`
-      : `worst second starts at ${k.worstSecondStartS.toFixed(2)} s${where(k.region, frameWidth, frameHeight)} of the ${subject}`,
+      : `worst second starts at ${k.worstSecondStartS.toFixed(2)} s${where(k.region, frameWidth, frameHeight)} of the ${subject}`) + short,
     advice: k.passes ? undefined : "slow the flashing to three a second or fewer, shrink the flashing area, or soften the contrast",
   }));
 }

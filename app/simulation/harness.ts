@@ -184,6 +184,7 @@ ${otherInputs.map((p) => `  top->${p.name} = 0;`).join("\n")}
   std::vector<int16_t> pcm;
   pcm.reserve((size_t)(AUDIO_RATE * (wantFrames + 1) / 50));
   uint64_t framesDone = 0, hpos = 0, vline = 0, linesAtVs = 0;
+  uint8_t* row = nullptr; // the frame row of the current line, null outside the active lines
   uint64_t linesMin = UINT64_MAX, linesMax = 0, frameCounts = 0;
   bool capturing = false;
   uint64_t blankCount = 0, blankFrame = 0, blankLine = 0, blankHpos = 0, blankColour = 0;
@@ -196,7 +197,7 @@ ${otherInputs.map((p) => `  top->${p.name} = 0;`).join("\n")}
     tick();
     uint8_t hs = top->${hsync.name} & 1, vs = top->${vsync.name} & 1;
     if (hsS.step(hs, cycle)) hpos = 0; else hpos++;
-    if (hpos == H_LEAD) vline++;
+    if (hpos == H_LEAD) { vline++; row = (vline >= V_LEAD && vline < V_LEAD + V_ACTIVE) ? &frame[(vline - V_LEAD) * H_ACTIVE * 3] : nullptr; }
     if (vsS.step(vs, cycle)) {
       uint64_t lines = hsS.starts - linesAtVs;
       if (vsS.periods) { if (lines < linesMin) linesMin = lines; if (lines > linesMax) linesMax = lines; frameCounts++; }
@@ -210,11 +211,13 @@ ${otherInputs.map((p) => `  top->${p.name} = 0;`).join("\n")}
       }
       capturing = true;
       vline = 0;
+      row = nullptr;
     }
     if (capturing) {
       uint32_t r = (${red}), g = (${green}), b = (${blue});
-      if (vline >= V_LEAD && vline < V_LEAD + V_ACTIVE && hpos >= H_LEAD && hpos < H_LEAD + H_ACTIVE) {
-        uint8_t* px = &frame[((vline - V_LEAD) * H_ACTIVE + (hpos - H_LEAD)) * 3];
+      // hpos - H_LEAD wraps around below the active area, so one unsigned compare tests both ends
+      if (row && hpos - H_LEAD < H_ACTIVE) {
+        uint8_t* px = row + (hpos - H_LEAD) * 3;
         px[0] = LEVEL[r]; px[1] = LEVEL[g]; px[2] = LEVEL[b];
       } else if (r | g | b) {
         if (blankCount == 0) { blankFrame = framesDone; blankLine = vline; blankHpos = hpos; blankColour = (r << 16) | (g << 8) | b; }
@@ -230,8 +233,9 @@ ${otherInputs.map((p) => `  top->${p.name} = 0;`).join("\n")}
       }
     }
     // Bounds: a lost sync ends the run with a status instead of a hang.
-    if (cycle - (hsS.seenStart ? hsS.lastStart : phaseStart) > 4 * H_TOTAL) { if (!noVsync) status = "hsync-lost"; break; }
-    if (cycle - (vsS.seenStart ? vsS.lastStart : phaseStart) > 3 * FRAME_CLOCKS) { if (!noVsync) status = "vsync-lost"; break; }
+    // hpos counts clocks since the last hsync leading edge (or the start of this phase); vsync is checked once a line
+    if (hpos > 4 * H_TOTAL) { if (!noVsync) status = "hsync-lost"; break; }
+    if (hpos == 0 && cycle - (vsS.seenStart ? vsS.lastStart : phaseStart) > 3 * FRAME_CLOCKS) { if (!noVsync) status = "vsync-lost"; break; }
     if ((cycle & 1023) == 0 && ctx->gotFinish()) { status = "finished"; break; }
   }
   double seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count();
