@@ -13,6 +13,18 @@ export interface SpeedFigures {
   seconds: number;
   cyclesPerSecond: number;
   realTimeMultiple: number;
+  /** absent in runs made before these were recorded */
+  edgeMode?: "rising-only" | "both-edges";
+  profileGuided?: boolean;
+}
+
+function buildNote(speed: SpeedFigures): string {
+  const notes = [
+    speed.edgeMode === "rising-only" ? "only the rising clock edge evaluated, as nothing in the design reacts to the falling one" : null,
+    speed.edgeMode === "both-edges" ? "both clock edges evaluated" : null,
+    speed.profileGuided ? "model compiled with a profile of its own first frames" : null,
+  ].filter(Boolean);
+  return notes.length ? ` Build: ${notes.join("; ")}.` : "";
 }
 
 /** Measured sync timing beside the standard's values (VESA DMT for the default mode). */
@@ -55,7 +67,7 @@ export function TimingTable({ video, speed, modeId }: { video: VideoFigures; spe
       {speed && (
         <p className="mt-3 text-sm text-ink-soft">
           Simulation speed: {(speed.cyclesPerSecond / 1e6).toFixed(1)} M cycles/s — {speed.realTimeMultiple.toFixed(2)}× real time at the
-          ruleset's clock ({speed.cycles.toLocaleString("en")} cycles in {speed.seconds.toFixed(1)} s).
+          ruleset's clock ({speed.cycles.toLocaleString("en")} cycles in {speed.seconds.toFixed(1)} s).{buildNote(speed)}
         </p>
       )}
     </div>
