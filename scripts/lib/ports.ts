@@ -1,4 +1,4 @@
-import { createServer } from "node:net";
+import { connect, createServer } from "node:net";
 
 export function isPortFree(port: number, host = "127.0.0.1"): Promise<boolean> {
   return new Promise((resolve) => {
@@ -27,10 +27,21 @@ export function freePort(): Promise<number> {
   });
 }
 
+/** Whether something accepts TCP connections on the port. */
+export function isListening(port: number, host = "127.0.0.1"): Promise<boolean> {
+  return new Promise((resolve) => {
+    const socket = connect({ port, host });
+    socket.once("connect", () => { socket.destroy(); resolve(true); });
+    socket.once("error", () => { socket.destroy(); resolve(false); });
+  });
+}
+
+// Probes by connecting, never by binding: a probe that binds the port for a moment can take it from the
+// service starting up, which then dies with EADDRINUSE while we wait for it.
 export async function waitForPort(port: number, timeoutMs = 30_000, host = "127.0.0.1"): Promise<void> {
   const until = Date.now() + timeoutMs;
   while (Date.now() < until) {
-    if (!(await isPortFree(port, host))) return;
+    if (await isListening(port, host)) return;
     await new Promise((r) => setTimeout(r, 100));
   }
   throw new Error(`nothing listened on ${host}:${port} within ${timeoutMs} ms`);
