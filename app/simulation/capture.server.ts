@@ -96,11 +96,15 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
   // frames are digested while the simulation runs (second core); the nominal frame rate is replaced by the
   // measured one once the run is over
   const nominalFps = ruleset.clock.frequencyHz / (mode.h.total * mode.v.total);
+  let firstPng: Buffer | null = null;
   const digest = new FrameDigest(mode.h.active, mode.v.active, frames, ruleset.flashCheck.enabled ? nominalFps : null);
   const outcome = await simulateDesign({
     ...req,
     frames,
-    watchFrames: (path, ended) => followFrames(path, mode.h.active, mode.v.active, ended, (img, i) => digest.push(img, i)),
+    watchFrames: (path, ended) => followFrames(path, mode.h.active, mode.v.active, ended, (img, i) => {
+      digest.push(img, i);
+      if (i === 0) firstPng = encodePng(img); // while the run goes on; written out after it
+    }),
   });
   if (!outcome.ok) {
     const timedOut = outcome.reason !== "failed";
@@ -145,9 +149,9 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
   writeFileSync(capture.files.waveformSvg, waveformSvg(pcm, AUDIO_SAMPLE_RATE));
 
   const fps = ruleset.clock.frequencyHz / (summary.vsync.periodMax || mode.h.total * mode.v.total);
-  if (digest.first) {
+  if (firstPng) {
     capture.files.firstFramePng = join(outDir, "first-frame.png");
-    writeFileSync(capture.files.firstFramePng, encodePng(digest.first));
+    writeFileSync(capture.files.firstFramePng, firstPng);
     const file = new RawFrameFile(framesPath, mode.h.active, mode.v.active);
     try {
       capture.files.contactSheetPng = join(outDir, "contact-sheet.png");

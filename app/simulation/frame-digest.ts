@@ -8,10 +8,9 @@ const FLASH_CELL = 4; // 640×480 → 160×120 cells
 
 /**
  * What the reference capture keeps of each frame, taken as the frames arrive so that no frame is held
- * longer than needed: the first frame, contact-sheet thumbnails, the comparison grid and the flash state.
+ * longer than needed: contact-sheet thumbnails, the comparison grid and the flash state.
  */
 export class FrameDigest {
-  first: RgbImage | null = null;
   readonly luma: Uint8Array[] = [];
   private readonly thumbs = new Map<number, RgbImage>();
   private readonly picks: Set<number>;
@@ -30,7 +29,6 @@ export class FrameDigest {
 
   push(img: RgbImage, index: number): void {
     if (index !== this.next) throw new RangeError(`frame ${index} arrived, frame ${this.next} was due`);
-    if (index === 0) this.first = img;
     if (this.picks.has(index)) this.thumbs.set(index, shrink(img, THUMBNAIL_FACTOR));
     this.luma.push(lumaGrid(img, COMPARE_GRID.width, COMPARE_GRID.height));
     this.analyzer?.push(flashGrid(img, FLASH_CELL));

@@ -14,8 +14,8 @@ import { entryShapedDesign, flipFlopHeavyDesign } from "./designs";
 const REAL_TIME_HZ = 25_175_000;
 // one second of picture: the window the flash rule counts in, and the demo rulesets' capture length
 const FRAMES = 60;
-// best of three: this machine is shared, and a slower run measures the neighbours, not Gatecrash
-const REPEATS = 3;
+// best of five: this machine is shared, and a slower run measures the neighbours, not Gatecrash
+const REPEATS = 5;
 const ICARUS_CYCLES = 100_000;
 
 const testbench = (cycles: number) => `\`timescale 1ns/1ps
