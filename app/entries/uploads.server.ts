@@ -82,14 +82,16 @@ function uploadsOpen(c: typeof competitions.$inferSelect, e: typeof entries.$inf
   return null;
 }
 
-async function newFileRow(uploadId: string, entryId: string, f: ClaimedFile) {
+/** Starts the file's multipart upload in the store; the row is written by the caller. */
+async function plannedFileValues(uploadId: string, entryId: string, f: ClaimedFile) {
   const name = safeFilename(f.filename);
   const key = `uploads/${entryId}/${uploadId}/${f.kind}/${crypto.randomUUID()}-${name}`;
   const multipartUploadId = await startMultipart(key, "application/octet-stream");
-  const [row] = await db()
-    .insert(uploadFiles)
-    .values({ uploadId, kind: f.kind, s3Key: key, filename: f.filename.slice(0, 200), claimedBytes: f.size, multipartUploadId, state: "uploading" })
-    .returning();
+  return { uploadId, kind: f.kind, s3Key: key, filename: f.filename.slice(0, 200), claimedBytes: f.size, multipartUploadId, state: "uploading" as const };
+}
+
+async function newFileRow(uploadId: string, entryId: string, f: ClaimedFile) {
+  const [row] = await db().insert(uploadFiles).values(await plannedFileValues(uploadId, entryId, f)).returning();
   return row;
 }
 
@@ -106,7 +108,11 @@ export function claimProblems(files: ClaimedFile[], ruleset: ReturnType<typeof r
   return problems;
 }
 
-/** Starts an upload. An unfinished upload of the same entry is discarded (its stored parts are aborted). */
+/**
+ * Starts an upload. An unfinished upload of the same entry is discarded (its stored parts are aborted), but
+ * only once the store has accepted every file of the new one: with the store down, the old upload stays
+ * as it was and can still be resumed.
+ */
 export async function startUpload(entryId: string, userId: string, files: ClaimedFile[], now = new Date()): Promise<Outcome<{ uploadId: string; files: PlannedFile[] }>> {
   const row = await entryForUploader(entryId, userId);
   if (!row) return refuse(404, "not_found", "That entry was not found.");
@@ -115,21 +121,26 @@ export async function startUpload(entryId: string, userId: string, files: Claime
   const problems = claimProblems(files, rulesetOf(row.competition.ruleset), true);
   if (Object.keys(problems).length) return refuse(400, "files_refused", "Some files cannot be uploaded.", problems);
 
-  const { uploadId, stale } = await db().transaction(async (tx) => {
+  const uploadId = crypto.randomUUID();
+  const values: Awaited<ReturnType<typeof plannedFileValues>>[] = [];
+  try {
+    for (const f of files) values.push(await plannedFileValues(uploadId, entryId, f));
+  } catch (err) {
+    // the store failed part-way: give back what it did accept, then report the failure as it came
+    await Promise.allSettled(values.map((v) => abortMultipart(v.s3Key, v.multipartUploadId)));
+    throw err;
+  }
+  const { rows, stale } = await db().transaction(async (tx) => {
     await tx.select({ id: entries.id }).from(entries).where(eq(entries.id, entryId)).for("update");
     const stale = await tx.select({ id: uploads.id }).from(uploads).where(and(eq(uploads.entryId, entryId), eq(uploads.state, "pending")));
     if (stale.length) await tx.update(uploads).set({ state: "abandoned" }).where(inArray(uploads.id, stale.map((s) => s.id)));
     const [{ low }] = await tx.select({ low: sql<number>`coalesce(min(${uploads.number}), 0)::int` }).from(uploads).where(eq(uploads.entryId, entryId));
-    const [u] = await tx
-      .insert(uploads)
-      .values({ entryId, number: Math.min(0, low) - 1, state: "pending", submittedBy: userId })
-      .returning({ id: uploads.id });
-    return { uploadId: u.id, stale };
+    await tx.insert(uploads).values({ id: uploadId, entryId, number: Math.min(0, low) - 1, state: "pending", submittedBy: userId });
+    const rows = await tx.insert(uploadFiles).values(values).returning();
+    return { rows, stale };
   });
   await abortFilesOf(stale.map((s) => s.id));
-  const planned: PlannedFile[] = [];
-  for (const f of files) planned.push(planOf(await newFileRow(uploadId, entryId, f)));
-  return { ok: true, uploadId, files: planned };
+  return { ok: true, uploadId, files: rows.map(planOf) };
 }
 
 /** Adds a file to a pending upload, or replaces one that was refused or is still unfinished. */
