@@ -40,7 +40,7 @@ export interface PlannedFile {
 }
 
 /** An entry the user may upload to (crew member), with its competition; null → 404. */
-async function entryForUploader(entryId: string, userId: string) {
+export async function entryForUploader(entryId: string, userId: string) {
   const [row] = await db()
     .select({ entry: entries, competition: competitions })
     .from(entries)

@@ -1,12 +1,14 @@
-import { parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
+import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
 import { okJson, refusalResponse, startUploadSchema } from "~/entries/api.server";
-import { startUpload } from "~/entries/uploads.server";
+import { entryForUploader, startUpload } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.entries.$entryId.uploads";
 
 /** POST: start an upload of an entry (crew members): claimed files are checked against the ruleset first. */
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireApiUser(request);
   requireMethod(request, ["POST"]);
+  // who may upload is settled before the body is read
+  if (!(await entryForUploader(params.entryId, user.id))) apiNotFound("That entry");
   const body = await parseJsonBody(request, startUploadSchema);
   const out = await startUpload(params.entryId, user.id, body.files);
   if (!out.ok) return refusalResponse(out);

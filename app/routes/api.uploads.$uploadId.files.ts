@@ -1,12 +1,14 @@
-import { parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
+import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
 import { claimedFileSchema, okJson, refusalResponse } from "~/entries/api.server";
-import { putFile } from "~/entries/uploads.server";
+import { putFile, uploadForUploader } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.uploads.$uploadId.files";
 
 /** POST: add a file to a pending upload, or replace one that was refused (crew members). */
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireApiUser(request);
   requireMethod(request, ["POST"]);
+  // who may upload is settled before the body is read
+  if (!(await uploadForUploader(params.uploadId, user.id))) apiNotFound("That upload");
   const body = await parseJsonBody(request, claimedFileSchema);
   const out = await putFile(params.uploadId, user.id, body);
   if (!out.ok) return refusalResponse(out);

@@ -229,7 +229,10 @@ describe("a complete upload", () => {
     const f = st.body.files[0];
     expect((await callApi(uploadApi.loader, request(`/api/uploads/${st.body.uploadId}`, { cookie: stranger }), { uploadId: st.body.uploadId })).status).toBe(404);
     expect((await callApi(fileApi.action, request("/x", { cookie: stranger, json: { action: "sign", partNumbers: [1] } }), { uploadId: st.body.uploadId, fileId: f.id })).status).toBe(404);
-    expect((await callApi(startApi.action, request("/x", { cookie: stranger, json: { files: [] } }), { entryId: s.entry.id })).status).toBe(400);
+    // access is settled before the body is read: a stranger's malformed body is a 404 too, never a 400 naming fields
+    expect((await callApi(startApi.action, request("/x", { cookie: stranger, json: { files: [] } }), { entryId: s.entry.id })).status).toBe(404);
+    expect((await callApi(filesApi.action, request("/x", { cookie: stranger, json: { kind: "nonsense" } }), { uploadId: st.body.uploadId })).status).toBe(404);
+    expect((await callApi(filesApi.action, request("/x", { cookie: s.cookie, json: { kind: "nonsense" } }), { uploadId: st.body.uploadId })).status).toBe(400);
     expect((await callApi(startApi.action, request("/x", { cookie: stranger, json: { files: [{ kind: "bundle", filename: "a", size: 1 }] } }), { entryId: s.entry.id })).status).toBe(404);
     expect((await callApi(uploadApi.loader, request(`/api/uploads/${st.body.uploadId}`), { uploadId: st.body.uploadId })).status).toBe(401);
   });
