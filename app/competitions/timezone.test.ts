@@ -58,6 +58,12 @@ describe("time zone helpers", () => {
     expect(isValidTimeZone("Mars/Olympus_Mons")).toBe(false);
     expect(isValidTimeZone("")).toBe(false);
   });
+  it("keeps seconds: 01:59:59 CET is one second before 03:00 CEST on 2027-03-28 (EU rules, IANA tz database)", () => {
+    const before = zonedWallTimeToUtc("2027-03-28T01:59:59", "Europe/Berlin");
+    const at = zonedWallTimeToUtc("2027-03-28T03:00", "Europe/Berlin");
+    expect(before.ok && at.ok && at.utc.getTime() - before.utc.getTime()).toBe(1000);
+    expect(zonedWallTimeToUtc("2027-03-28T01:59:60", "Europe/Berlin")).toEqual({ ok: false, reason: "format" });
+  });
   it("reads offsets (CET +60, CEST +120)", () => {
     expect(zoneOffsetMinutes(new Date("2027-01-01T00:00:00Z"), "Europe/Berlin")).toBe(60);
     expect(zoneOffsetMinutes(new Date("2027-07-01T00:00:00Z"), "Europe/Berlin")).toBe(120);

@@ -44,9 +44,10 @@ interface Wall {
   d: number;
   h: number;
   mi: number;
+  s: number;
 }
 
-function wallOf(instant: Date, tz: string): Wall & { s: number } {
+function wallOf(instant: Date, tz: string): Wall {
   const p = Object.fromEntries(formatter(tz).formatToParts(instant).map((x) => [x.type, x.value]));
   return { y: +p.year, mo: +p.month, d: +p.day, h: +p.hour % 24, mi: +p.minute, s: +p.second };
 }
@@ -58,22 +59,22 @@ export function zoneOffsetMinutes(instant: Date, tz: string): number {
   return Math.round((asUtc - Math.floor(instant.getTime() / 1000) * 1000) / 60_000);
 }
 
-const LOCAL = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::\d{2})?$/;
+const LOCAL = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2}))?$/;
 
 export type ZonedResult =
   | { ok: true; utc: Date; ambiguous: boolean }
   | { ok: false; reason: "format" | "nonexistent" };
 
 /**
- * "2027-03-28T02:30" in tz -> the UTC instant. A wall time that the clocks skip (spring forward) is refused as
+ * "2027-03-28T02:30" (seconds optional) in tz -> the UTC instant. A wall time that the clocks skip (spring forward) is refused as
  * "nonexistent"; one that happens twice (fall back) resolves to the first occurrence and says `ambiguous`.
  */
 export function zonedWallTimeToUtc(local: string, tz: string): ZonedResult {
   const m = LOCAL.exec(local);
   if (!m) return { ok: false, reason: "format" };
-  const want: Wall = { y: +m[1], mo: +m[2], d: +m[3], h: +m[4], mi: +m[5] };
-  if (want.mo < 1 || want.mo > 12 || want.d < 1 || want.d > 31 || want.h > 23 || want.mi > 59) return { ok: false, reason: "format" };
-  const naive = Date.UTC(want.y, want.mo - 1, want.d, want.h, want.mi);
+  const want: Wall = { y: +m[1], mo: +m[2], d: +m[3], h: +m[4], mi: +m[5], s: +(m[6] ?? 0) };
+  if (want.mo < 1 || want.mo > 12 || want.d < 1 || want.d > 31 || want.h > 23 || want.mi > 59 || want.s > 59) return { ok: false, reason: "format" };
+  const naive = Date.UTC(want.y, want.mo - 1, want.d, want.h, want.mi, want.s);
   if (new Date(naive).getUTCDate() !== want.d) return { ok: false, reason: "format" }; // 31 February etc.
   // Candidate offsets: the zone's offsets a day either side cover every transition of that day.
   const offsets = new Set<number>();
@@ -82,7 +83,7 @@ export function zonedWallTimeToUtc(local: string, tz: string): ZonedResult {
   for (const off of offsets) {
     const t = naive - off * 60_000;
     const w = wallOf(new Date(t), tz);
-    if (w.y === want.y && w.mo === want.mo && w.d === want.d && w.h === want.h && w.mi === want.mi) hits.push(t);
+    if (w.y === want.y && w.mo === want.mo && w.d === want.d && w.h === want.h && w.mi === want.mi && w.s === want.s) hits.push(t);
   }
   if (hits.length === 0) return { ok: false, reason: "nonexistent" };
   const unique = [...new Set(hits)].sort((a, b) => a - b);

@@ -1,5 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { cutoffOf, isOnTime, offsetMinutes, remainingMs, splitDuration, zonedWallTimeToInstant } from "./deadline";
+import { zoneOffsetMinutes as offsetMinutes } from "~/competitions/timezone";
+import { cutoffOf, isOnTime, remainingMs, splitDuration } from "./deadline";
+import { wallTimeInstant } from "../../tests/support/time";
 
 describe("deadline with grace", () => {
   const deadline = new Date("2027-06-12T20:00:00Z");
@@ -24,11 +26,11 @@ describe("a deadline on a daylight-saving change (reference: the IANA tz databas
   const wall = (d: Date) => new Intl.DateTimeFormat("en-GB", { timeZone: tz, hourCycle: "h23", dateStyle: "short", timeStyle: "medium" }).format(d);
 
   it("turns the organizer's wall-clock deadline into the right instant on both sides of the jump", () => {
-    const deadline = zonedWallTimeToInstant("2027-03-28T03:00", tz);
+    const deadline = wallTimeInstant("2027-03-28T03:00", tz);
     expect(deadline.toISOString()).toBe("2027-03-28T01:00:00.000Z");
     expect(wall(deadline)).toBe("28/03/2027, 03:00:00");
     expect(offsetMinutes(deadline, tz)).toBe(120);
-    const before = zonedWallTimeToInstant("2027-03-28T01:59:59", tz);
+    const before = wallTimeInstant("2027-03-28T01:59:59", tz);
     expect(offsetMinutes(before, tz)).toBe(60);
     // 01:59:59 CET is one second before 03:00 CEST, not an hour and a second.
     expect(deadline.getTime() - before.getTime()).toBe(1000);
@@ -38,14 +40,14 @@ describe("a deadline on a daylight-saving change (reference: the IANA tz databas
   });
 
   it("refuses a wall time the clocks skip and takes the first of a repeated one", () => {
-    expect(() => zonedWallTimeToInstant("2027-03-28T02:30", tz)).toThrow(/does not exist/);
+    expect(() => wallTimeInstant("2027-03-28T02:30", tz)).toThrow(/does not exist/);
     // 2027-10-31 03:00 CEST → 02:00 CET: 02:30 happens twice; the first is 00:30Z.
-    expect(zonedWallTimeToInstant("2027-10-31T02:30", tz).toISOString()).toBe("2027-10-31T00:30:00.000Z");
+    expect(wallTimeInstant("2027-10-31T02:30", tz).toISOString()).toBe("2027-10-31T00:30:00.000Z");
   });
 
   it("counts down in real elapsed time across the jump", () => {
-    const deadline = zonedWallTimeToInstant("2027-03-28T03:00", tz);
-    const now = zonedWallTimeToInstant("2027-03-27T03:00", tz); // the day before, same wall time, but only 23 h earlier
+    const deadline = wallTimeInstant("2027-03-28T03:00", tz);
+    const now = wallTimeInstant("2027-03-27T03:00", tz); // the day before, same wall time, but only 23 h earlier
     expect(splitDuration(remainingMs(now, deadline))).toEqual({ days: 0, hours: 23, minutes: 0, seconds: 0 });
     expect(remainingMs(new Date(deadline.getTime() + 5), deadline)).toBe(0);
   });

@@ -4,7 +4,6 @@ import { afterAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "~/db/client.server";
 import { checkRuns, outbox, uploadFiles, uploads } from "~/db/schema";
 import { stopQueue } from "~/jobs/queue.server";
-import { zonedWallTimeToInstant } from "~/entries/deadline";
 import { MIN_PART_BYTES } from "~/entries/parts";
 import { completeUpload, confirmFile, startUpload, sweepStaleUploads, uploadForUploader } from "~/entries/uploads.server";
 import { rulesetOf } from "~/entries/service.server";
@@ -16,6 +15,8 @@ import * as fileApi from "~/routes/api.uploads.$uploadId.files.$fileId";
 import * as filesApi from "~/routes/api.uploads.$uploadId.files";
 import { makeUser, request, sessionCookie } from "../support/users";
 import { callApi, makeEntrySetup } from "./entries-support";
+import { wallTimeInstant } from "../support/time";
+
 
 afterAll(async () => {
   await stopQueue();
@@ -350,17 +351,17 @@ describe("the deadline, decided on the server at completion time", () => {
 
   it("a deadline on the daylight-saving change in the event's zone (reference: the IANA tz database through Intl)", async () => {
     // Europe/Berlin, 2027-03-28: 02:00 CET jumps to 03:00 CEST. The organizer's deadline is 03:00 local.
-    const deadline = zonedWallTimeToInstant("2027-03-28T03:00", "Europe/Berlin");
+    const deadline = wallTimeInstant("2027-03-28T03:00", "Europe/Berlin");
     const inBerlin = new Intl.DateTimeFormat("en-GB", { timeZone: "Europe/Berlin", timeStyle: "long", hourCycle: "h23" }).format(deadline);
     expect(inBerlin).toMatch(/^03:00:00 (CEST|GMT\+2)$/);
     const s = await makeEntrySetup({ deadlineAt: deadline, timeZone: "Europe/Berlin" });
-    const oneSecondBefore = zonedWallTimeToInstant("2027-03-28T01:59:59", "Europe/Berlin"); // CET, one real second earlier
+    const oneSecondBefore = wallTimeInstant("2027-03-28T01:59:59", "Europe/Berlin"); // CET, one real second earlier
     const setup = new Date(deadline.getTime() - 3 * 3600_000);
     const ok = await completeUpload(await readyUpload(s, setup), s.entrant.id, oneSecondBefore);
     expect(ok.ok && ok.upload.state).toBe("complete");
     const at = await completeUpload(await readyUpload(s, setup), s.entrant.id, deadline);
     expect(at.ok && at.upload.state).toBe("late");
     // An hour "later" on the wall clock is not an hour later in real time here: 02:59:59 CET never happened.
-    expect(() => zonedWallTimeToInstant("2027-03-28T02:59:59", "Europe/Berlin")).toThrow(/does not exist/);
+    expect(() => wallTimeInstant("2027-03-28T02:59:59", "Europe/Berlin")).toThrow(/does not exist/);
   });
 });
