@@ -1,8 +1,7 @@
 import { createHash } from "node:crypto";
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { competitions, crews, entries, events, uploadFiles, uploads } from "~/db/schema";
-import { checkOfUpload } from "~/conformance/report.server";
+import { artifacts, checkRuns, competitions, crews, entries, events, uploadFiles, uploads } from "~/db/schema";
 import { flashSummary, publicStats, type FlashSummary, type PublicStats } from "./figures";
 
 /**
@@ -154,24 +153,54 @@ export function mediaPath(c: Pick<PublicCompetition, "eventSlug" | "slug">, entr
   return `/e/${c.eventSlug}/${c.slug}/entries/${entryId}/media/${kind}`;
 }
 
-async function describe(c: PublicCompetition, e: EligibleEntry, position: number): Promise<ShowcaseEntry> {
-  const check = await checkOfUpload(e.uploadId, e.uploadNumber);
+interface CheckSummary {
+  state: (typeof checkRuns.$inferSelect)["state"];
+  verdict: (typeof checkRuns.$inferSelect)["verdict"];
+  figures: Record<string, unknown>;
+  /** artifact kind → its /artifacts URL */
+  artifacts: Record<string, string>;
+}
+
+/**
+ * The latest check run of each upload with its artifacts, and the public files of each upload, in three
+ * queries whatever the number of entries (the showcase is the busiest public page).
+ */
+async function loadShowcaseData(uploadIds: string[]) {
+  if (uploadIds.length === 0) return { checks: new Map<string, CheckSummary>(), files: new Map<string, { kind: string; mediaType: string | null }[]>() };
+  const runs = await db()
+    .selectDistinctOn([checkRuns.uploadId], { id: checkRuns.id, uploadId: checkRuns.uploadId, state: checkRuns.state, verdict: checkRuns.verdict, figures: checkRuns.figures })
+    .from(checkRuns)
+    .where(inArray(checkRuns.uploadId, uploadIds))
+    .orderBy(checkRuns.uploadId, desc(checkRuns.queuedAt));
+  const arts = runs.length
+    ? await db().select({ id: artifacts.id, kind: artifacts.kind, checkRunId: artifacts.checkRunId }).from(artifacts).where(inArray(artifacts.checkRunId, runs.map((r) => r.id)))
+    : [];
   const files = await db()
-    .select({ kind: uploadFiles.kind, mediaType: uploadFiles.mediaType })
+    .select({ uploadId: uploadFiles.uploadId, kind: uploadFiles.kind, mediaType: uploadFiles.mediaType })
     .from(uploadFiles)
-    .where(and(eq(uploadFiles.uploadId, e.uploadId), eq(uploadFiles.state, "confirmed"), inArray(uploadFiles.kind, ["video", "still"])));
+    .where(and(inArray(uploadFiles.uploadId, uploadIds), eq(uploadFiles.state, "confirmed"), inArray(uploadFiles.kind, ["video", "still"])));
+  const checks = new Map<string, CheckSummary>();
+  for (const r of runs) {
+    const own = arts.filter((a) => a.checkRunId === r.id);
+    checks.set(r.uploadId, { state: r.state, verdict: r.verdict, figures: r.figures as Record<string, unknown>, artifacts: Object.fromEntries(own.map((a) => [a.kind, `/artifacts/${a.id}`])) });
+  }
+  const byUpload = new Map<string, { kind: string; mediaType: string | null }[]>();
+  for (const f of files) byUpload.set(f.uploadId, [...(byUpload.get(f.uploadId) ?? []), f]);
+  return { checks, files: byUpload };
+}
+
+function describe(c: PublicCompetition, e: EligibleEntry, position: number, check: CheckSummary | undefined, files: { kind: string; mediaType: string | null }[]): ShowcaseEntry {
   const video = files.find((f) => f.kind === "video");
   const still = files.find((f) => f.kind === "still");
-  const a = check.artifacts;
-  const url = (kind: string) => a[kind]?.url ?? null;
-  const figures = check.run?.state === "done" ? check.run.figures : (check.run?.figures ?? {});
+  const url = (kind: string) => check?.artifacts[kind] ?? null;
+  const figures = check?.figures ?? {};
   return {
     id: e.id,
     title: e.title,
     description: e.description,
     crew: c.crewsHidden ? null : e.crewName,
     position,
-    check: { state: check.run?.state ?? "none", verdict: check.run?.verdict ?? null },
+    check: { state: check?.state ?? "none", verdict: check?.verdict ?? null },
     flash: flashSummary(figures),
     stats: publicStats(figures),
     media: {
@@ -186,20 +215,27 @@ async function describe(c: PublicCompetition, e: EligibleEntry, position: number
       captureVideo: video ? mediaPath(c, e.id, "video") : null,
       captureMediaType: video?.mediaType ?? null,
     },
-    referenceReady: Boolean(a.webm || a.mp4),
+    referenceReady: Boolean(url("webm") || url("mp4")),
   };
+}
+
+async function describeAll(c: PublicCompetition, list: { e: EligibleEntry; position: number }[]): Promise<ShowcaseEntry[]> {
+  const { checks, files } = await loadShowcaseData(list.map(({ e }) => e.uploadId));
+  return list.map(({ e, position }) => describe(c, e, position, checks.get(e.uploadId), files.get(e.uploadId) ?? []));
 }
 
 /** Every showcase entry of a competition, in presentation order. */
 export async function showcaseEntries(c: PublicCompetition): Promise<ShowcaseEntry[]> {
   const list = await eligibleEntries(c.id);
-  return Promise.all(list.map((e, i) => describe(c, e, i + 1)));
+  return describeAll(c, list.map((e, i) => ({ e, position: i + 1 })));
 }
 
 export async function showcaseEntry(c: PublicCompetition, entryId: string): Promise<ShowcaseEntry | null> {
   const list = await eligibleEntries(c.id);
   const i = list.findIndex((e) => e.id === entryId);
-  return i < 0 ? null : describe(c, list[i], i + 1);
+  if (i < 0) return null;
+  const [one] = await describeAll(c, [{ e: list[i], position: i + 1 }]);
+  return one;
 }
 
 /** The storage key of an eligible entry's capture video or still, for streaming; null when not public. */
