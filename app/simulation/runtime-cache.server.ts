@@ -1,6 +1,6 @@
 import { chmodSync, copyFileSync, existsSync, mkdirSync, mkdtempSync, renameSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { createHash } from "node:crypto";
-import { tmpdir } from "node:os";
+import { cpus, tmpdir } from "node:os";
 import { join } from "node:path";
 import { runSandboxed } from "~/sandbox/sandbox.server";
 
@@ -16,7 +16,9 @@ let pending: Promise<string | null> | null = null;
 
 function cacheKey(flags: string): string {
   const st = statSync(join(VERILATOR_INCLUDE, "verilated.cpp"));
-  return `${Math.round(st.mtimeMs)}-${st.size}-${createHash("sha256").update(flags).digest("hex").slice(0, 8)}`;
+  // -march=native objects are only good on the processor they were built for
+  const target = `${flags} ${cpus()[0]?.model ?? "unknown"}`;
+  return `${Math.round(st.mtimeMs)}-${st.size}-${createHash("sha256").update(target).digest("hex").slice(0, 8)}`;
 }
 
 async function build(target: string, flags: string): Promise<string | null> {
