@@ -319,19 +319,7 @@ export function competitionValues(v: CompetitionForm, timeZone: string): Competi
 
 /** Stored values as the form's defaults (wall-clock strings in the event's zone). */
 export function competitionToForm(
-  c: {
-    title: string;
-    slug: string;
-    description: string;
-    deadlineAt: Date | null;
-    graceMinutes: number;
-    votingOpensAt: Date | null;
-    votingClosesAt: Date | null;
-    feeAmount: number;
-    feeCurrency: string;
-    ruleset: Ruleset;
-    criteria: { id: string; name: string; weight: number; scaleMin: number; scaleMax: number }[];
-  },
+  c: Omit<CompetitionValues, "criteria"> & { criteria: Required<CompetitionValues["criteria"][number]>[] },
   tz: string,
 ) {
   const wall = (d: Date | null) => (d ? utcToZonedWallTime(d, tz) : "");

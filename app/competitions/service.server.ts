@@ -98,6 +98,22 @@ async function writeCriteria(tx: Parameters<Parameters<ReturnType<typeof db>["tr
   }
 }
 
+/** The columns an organizer's form sets, the same on create and on edit. */
+function editableColumns(v: CompetitionValues) {
+  return {
+    slug: v.slug,
+    title: v.title,
+    description: v.description,
+    deadlineAt: v.deadlineAt,
+    graceMinutes: v.graceMinutes,
+    votingOpensAt: v.votingOpensAt,
+    votingClosesAt: v.votingClosesAt,
+    feeAmount: v.feeAmount,
+    feeCurrency: v.feeCurrency,
+    ruleset: v.ruleset,
+  };
+}
+
 export async function createCompetition(userId: string, eventId: string, v: CompetitionValues): Promise<Saved<{ id: string }>> {
   if (await slugTaken(eventId, v.slug)) return { ok: false, fieldErrors: { slug: [`This event already has a compo at “${v.slug}”.`] } };
   const id = await db().transaction(async (tx) => {
@@ -105,16 +121,7 @@ export async function createCompetition(userId: string, eventId: string, v: Comp
       .insert(competitions)
       .values({
         eventId,
-        slug: v.slug,
-        title: v.title,
-        description: v.description,
-        deadlineAt: v.deadlineAt,
-        graceMinutes: v.graceMinutes,
-        votingOpensAt: v.votingOpensAt,
-        votingClosesAt: v.votingClosesAt,
-        feeAmount: v.feeAmount,
-        feeCurrency: v.feeCurrency,
-        ruleset: v.ruleset,
+        ...editableColumns(v),
         rulesetVersion: 1,
       })
       .onConflictDoNothing({ target: [competitions.eventId, competitions.slug] })
@@ -155,16 +162,7 @@ export async function updateCompetition(userId: string, current: CompetitionRow,
     await tx
       .update(competitions)
       .set({
-        slug: v.slug,
-        title: v.title,
-        description: v.description,
-        deadlineAt: v.deadlineAt,
-        graceMinutes: v.graceMinutes,
-        votingOpensAt: v.votingOpensAt,
-        votingClosesAt: v.votingClosesAt,
-        feeAmount: v.feeAmount,
-        feeCurrency: v.feeCurrency,
-        ruleset: v.ruleset,
+        ...editableColumns(v),
         rulesetVersion: rulesetChanged && current.ruleset != null ? current.rulesetVersion + 1 : current.rulesetVersion,
         updatedAt: new Date(),
       })

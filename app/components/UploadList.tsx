@@ -1,19 +1,11 @@
-export interface UploadListItem {
-  id: string;
-  number: number;
-  state: "complete" | "late";
-  completedAt: string;
-  counts: boolean;
-  files: { kind: string; filename: string; sizeBytes: number; sha256: string; mediaType: string }[];
-}
-
+import type { UploadRow } from "~/entries/shapes";
 const fmt = (iso: string, timeZone: string) =>
   new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "long", timeZone }).format(new Date(iso));
 
 const size = (n: number) => (n < 1024 ? `${n} B` : n < 1048576 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1048576).toFixed(1)} MiB`);
 
 /** Recorded uploads, newest first: which one counts, late ones marked, every file with its SHA-256. */
-export function UploadList({ uploads, timeZone }: { uploads: UploadListItem[]; timeZone: string }) {
+export function UploadList({ uploads, timeZone }: { uploads: UploadRow[]; timeZone: string }) {
   if (uploads.length === 0) return <p className="text-mute">No uploads yet.</p>;
   return (
     <ol className="grid gap-3" aria-label="Uploads">

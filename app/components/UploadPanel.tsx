@@ -1,4 +1,5 @@
 import { useEffect, useRef, useState } from "react";
+import type { PlannedFile } from "~/entries/shapes";
 import { ACCEPT_ATTR, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "~/entries/sniff";
 
 /**
@@ -7,15 +8,6 @@ import { ACCEPT_ATTR, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } f
  * connection (or a reload: the upload id is kept in sessionStorage) resumes where it stopped. A failed part is
  * retried with a growing pause; when the connection stays down, the panel says so and offers Resume.
  */
-interface PlannedFile {
-  id: string;
-  kind: FileKind;
-  filename: string;
-  size: number;
-  partSize: number;
-  partCount: number;
-  state: string;
-}
 interface Saved {
   uploadId: string;
   files: Record<string, { fileId: string; name: string; size: number; lastModified: number }>;

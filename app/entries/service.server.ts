@@ -5,6 +5,7 @@ import { db } from "~/db/client.server";
 import { parseRuleset, type Ruleset } from "~/conformance/ruleset";
 import { audit } from "~/audit/log.server";
 import { cutoffOf } from "./deadline";
+import type { UploadRow } from "./shapes";
 
 /** Entries: who may see one, creating one in an open competition, and the dashboard's data. */
 export function rulesetOf(raw: unknown): Ruleset {
@@ -85,14 +86,6 @@ export async function entriesOfCrewsOf(crewIds: string[]) {
     .where(inArray(entries.crewId, crewIds));
 }
 
-export interface UploadRow {
-  id: string;
-  number: number;
-  state: "complete" | "late";
-  completedAt: string;
-  counts: boolean;
-  files: { kind: string; filename: string; sizeBytes: number; sha256: string; mediaType: string }[];
-}
 
 /** Recorded uploads (complete and late), newest first, with which one counts. Pending and abandoned ones are not uploads. */
 export async function uploadsOfEntry(entryId: string): Promise<UploadRow[]> {

@@ -8,6 +8,7 @@ import { composeMail } from "~/mail/templates";
 import { env } from "~/env.server";
 import { cutoffOf, isOnTime } from "./deadline";
 import { formatBytes, partPlan, safeFilename, sizeProblem } from "./parts";
+import type { PlannedFile } from "./shapes";
 import { checkKind, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "./sniff";
 import { rulesetOf } from "./service.server";
 
@@ -29,15 +30,6 @@ export interface ClaimedFile {
   size: number;
 }
 
-export interface PlannedFile {
-  id: string;
-  kind: FileKind;
-  filename: string;
-  size: number;
-  partSize: number;
-  partCount: number;
-  state: string;
-}
 
 /** An entry the user may upload to (crew member), with its competition; null → 404. */
 export async function entryForUploader(entryId: string, userId: string) {

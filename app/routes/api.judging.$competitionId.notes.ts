@@ -1,7 +1,6 @@
 import { z } from "zod";
-import { apiError, apiJson, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
-import { competitionForJudge } from "~/judging/access.server";
-import { apiCall } from "~/judging/http.server";
+import { apiJson, parseJsonBody } from "~/api/json.server";
+import { apiCall, requireApiJudge } from "~/judging/http.server";
 import { NOTE_MAX, saveNote } from "~/judging/scores.server";
 import type { Route } from "./+types/api.judging.$competitionId.notes";
 
@@ -13,10 +12,7 @@ const bodySchema = z.object({
 });
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireApiUser(request);
-  requireMethod(request, ["POST"]);
-  const c = await competitionForJudge(user.id, params.competitionId);
-  if (!c) throw apiError(404, "not_found", "That competition was not found among the ones you judge.");
+  const { user, competition: c } = await requireApiJudge(request, params.competitionId, ["POST"]);
   const body = await parseJsonBody(request, bodySchema);
   const saved = await apiCall(() => saveNote({ judgeUserId: user.id, competitionId: c.id, ...body }));
   return apiJson({ saved });

@@ -1,8 +1,7 @@
 import { z } from "zod";
-import { apiError, apiJson, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
-import { competitionForJudge } from "~/judging/access.server";
+import { apiJson, parseJsonBody } from "~/api/json.server";
 import { gridFor } from "~/judging/grid.server";
-import { apiCall } from "~/judging/http.server";
+import { apiCall, requireApiJudge } from "~/judging/http.server";
 import { saveScore } from "~/judging/scores.server";
 import type { Route } from "./+types/api.judging.$competitionId.scores";
 
@@ -20,17 +19,12 @@ const bodySchema = z.object({
 });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireApiUser(request);
-  const c = await competitionForJudge(user.id, params.competitionId);
-  if (!c) throw apiError(404, "not_found", "That competition was not found among the ones you judge.");
+  const { user, competition: c } = await requireApiJudge(request, params.competitionId);
   return apiJson({ grid: await gridFor(user.id, c), locked: c.judgingLocked });
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireApiUser(request);
-  requireMethod(request, ["POST"]);
-  const c = await competitionForJudge(user.id, params.competitionId);
-  if (!c) throw apiError(404, "not_found", "That competition was not found among the ones you judge.");
+  const { user, competition: c } = await requireApiJudge(request, params.competitionId, ["POST"]);
   const body = await parseJsonBody(request, bodySchema);
   const saved = await apiCall(() => saveScore({ judgeUserId: user.id, competitionId: c.id, ...body }));
   return apiJson({ saved });

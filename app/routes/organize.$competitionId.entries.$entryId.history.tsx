@@ -1,15 +1,12 @@
 import { data, Link } from "react-router";
-import { requireUser } from "~/auth/guards.server";
-import { competitionForOrganizer } from "~/judging/access.server";
+import { requireJuryOrganizer } from "~/judging/http.server";
 import { historyFor } from "~/judging/standings.server";
 import type { Route } from "./+types/organize.$competitionId.entries.$entryId.history";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Score history · ${data?.entry.title ?? "Entry"} · Gatecrash` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  const c = await competitionForOrganizer(user, params.competitionId);
-  if (!c) throw data({ message: "This compo is not among the ones you organize." }, { status: 404 });
+  const { c } = await requireJuryOrganizer(request, params.competitionId);
   const h = await historyFor(c, params.entryId);
   if (!h) throw data({ message: "This entry is not in this compo." }, { status: 404 });
   return { competition: { id: c.id, title: c.title, timeZone: c.timeZone }, entry: h.entry, rows: h.rows };

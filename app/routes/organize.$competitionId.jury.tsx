@@ -2,28 +2,19 @@ import { getFormProps, getInputProps, getSelectProps, getTextareaProps, useForm 
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, useActionData } from "react-router";
 import { z } from "zod";
-import { requireUser } from "~/auth/guards.server";
 import { FormErrors } from "~/components/FormField";
 import { StateBadge } from "~/components/StateBadge";
 import { env } from "~/env.server";
-import { competitionForOrganizer } from "~/judging/access.server";
 import { JudgingError } from "~/judging/errors";
 import { inviteSchema, lockSchema, optionsSchema, organizerConflictSchema } from "~/judging/forms";
-import { pageCall } from "~/judging/http.server";
+import { pageCall, requireJuryOrganizer } from "~/judging/http.server";
 import { declareConflict, inviteJudge, juryOverview, removeConflict, revokeInvite, setAssignment, setJudgingLocked, setJudgingOptions } from "~/judging/jury.server";
 import type { Route } from "./+types/organize.$competitionId.jury";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Jury · ${data?.competition.title ?? "Compo"} · Gatecrash` }];
 
-async function organizer(request: Request, competitionId: string | undefined) {
-  const user = await requireUser(request);
-  const c = await competitionForOrganizer(user, competitionId);
-  if (!c) throw data({ message: "This compo is not among the ones you organize." }, { status: 404 });
-  return { user, c };
-}
-
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { c } = await organizer(request, params.competitionId);
+  const { c } = await requireJuryOrganizer(request, params.competitionId);
   return {
     competition: { id: c.id, title: c.title, state: c.state, eventTitle: c.eventTitle, blindJudging: c.blindJudging, orderMode: c.orderMode, locked: c.judgingLocked },
     jury: await juryOverview(c),
@@ -34,7 +25,7 @@ const assignSchema = z.object({ intent: z.literal("assign"), judgeUserId: z.stri
 const idSchema = z.object({ intent: z.enum(["revoke", "remove-conflict"]), id: z.string().min(1) });
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const { user, c } = await organizer(request, params.competitionId);
+  const { user, c } = await requireJuryOrganizer(request, params.competitionId);
   const form = await request.formData();
   const intent = String(form.get("intent") ?? "");
   if (intent === "invite") {

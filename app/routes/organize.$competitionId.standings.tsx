@@ -1,31 +1,23 @@
 import { getFormProps, useForm } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { data, Form, Link, useActionData } from "react-router";
-import { requireUser } from "~/auth/guards.server";
+import { Form, Link, useActionData } from "react-router";
 import { StandingsChart } from "~/components/StandingsChart";
-import { competitionForOrganizer } from "~/judging/access.server";
 import { methodSchema } from "~/judging/forms";
+import { requireJuryOrganizer } from "~/judging/http.server";
 import { setJuryMethod } from "~/judging/jury.server";
 import { standingsFor } from "~/judging/standings.server";
 import type { Route } from "./+types/organize.$competitionId.standings";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Standings · ${data?.competition.title ?? "Compo"} · Gatecrash` }];
 
-async function organizer(request: Request, competitionId: string | undefined) {
-  const user = await requireUser(request);
-  const c = await competitionForOrganizer(user, competitionId);
-  if (!c) throw data({ message: "This compo is not among the ones you organize." }, { status: 404 });
-  return { user, c };
-}
-
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { c } = await organizer(request, params.competitionId);
+  const { c } = await requireJuryOrganizer(request, params.competitionId);
   const view = await standingsFor(c);
   return { competition: { id: c.id, title: c.title, eventTitle: c.eventTitle, locked: c.judgingLocked }, view };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const { user, c } = await organizer(request, params.competitionId);
+  const { user, c } = await requireJuryOrganizer(request, params.competitionId);
   const s = parseWithZod(await request.formData(), { schema: methodSchema });
   if (s.status !== "success") return s.reply();
   if (s.value.juryMethod !== c.juryMethod) await setJuryMethod(c, s.value.juryMethod, user.id);

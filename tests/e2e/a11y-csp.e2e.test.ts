@@ -1,21 +1,13 @@
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDb } from "~/db/client.server";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { makeUser } from "../support/users";
-import { contextWithCookie, launch } from "./browser";
+import { contextWithCookie, useBrowser } from "./browser";
 
 /**
  * The content security policy in a real browser: the page hydrates (React Router's inline scripts carry the
  * nonce), a form submits through the client router, and Chromium reports no policy violation.
  */
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await closeDb();
-});
+const browser = useBrowser();
 
 function watchViolations(page: Page): string[] {
   const seen: string[] = [];
@@ -33,7 +25,7 @@ async function waitForHydration(page: Page): Promise<void> {
 describe("the app under its content security policy", () => {
   it("hydrates, signs in through the client router, and breaks no policy", async () => {
     const u = await makeUser({ name: "Policy Tester" });
-    const ctx = await contextWithCookie(browser);
+    const ctx = await contextWithCookie(browser());
     const page = await ctx.newPage();
     const violations = watchViolations(page);
     await page.addInitScript(() => {

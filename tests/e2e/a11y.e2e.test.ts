@@ -1,11 +1,11 @@
 import { createRequire } from "node:module";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDb, db } from "~/db/client.server";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
 import { juryAssignments } from "~/db/schema";
 import { makeCompo } from "../integration/showcase.fixtures";
 import { grantEventRole, makeUser, sessionCookie } from "../support/users";
-import { contextWithCookie, launch } from "./browser";
+import { contextWithCookie, useBrowser } from "./browser";
 
 /**
  * axe-core (its own source injected into each page; Playwright's evaluate is not bound by the page's CSP) on every
@@ -14,14 +14,7 @@ import { contextWithCookie, launch } from "./browser";
 const require = createRequire(import.meta.url);
 const axeSource: string = (require("axe-core") as { source: string }).source;
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await closeDb();
-});
+const browser = useBrowser();
 
 interface AxeViolation {
   id: string;
@@ -61,7 +54,7 @@ describe("accessibility of the main pages", () => {
     ];
     const problems: string[] = [];
     for (const v of visits) {
-      const ctx = await contextWithCookie(browser, v.cookie);
+      const ctx = await contextWithCookie(browser(), v.cookie);
       const page = await ctx.newPage();
       for (const path of v.paths) {
         const res = await page.goto(path);

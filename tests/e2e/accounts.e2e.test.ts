@@ -1,24 +1,15 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { closeDb } from "~/db/client.server";
+import { describe, expect, it } from "vitest";
 import { firstLink, waitForMail } from "../support/mail";
 import { grantEventRole, makeEvent, makeUser, sessionCookie, unique } from "../support/users";
-import { contextWithCookie, launch, screenshot } from "./browser";
+import { contextWithCookie, screenshot, useBrowser } from "./browser";
 import { crewMembers, crews } from "~/db/schema";
 import { db } from "~/db/client.server";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await closeDb();
-});
+const browser = useBrowser();
 
 describe("accounts in the browser", () => {
   it("signs up, reads the verification mail from the catcher, verifies, and lands signed in", async () => {
-    const ctx = await contextWithCookie(browser);
+    const ctx = await contextWithCookie(browser());
     const page = await ctx.newPage();
     const email = `${unique("e2e")}@example.test`;
     await page.goto("/sign-up");
@@ -54,7 +45,7 @@ describe("accounts in the browser", () => {
       ["judge", judge, "home-judge", "Judging"],
       ["entrant", entrant, "home-entrant", "My entries"],
     ] as const) {
-      const ctx = await contextWithCookie(browser, await sessionCookie(u));
+      const ctx = await contextWithCookie(browser(), await sessionCookie(u));
       const page = await ctx.newPage();
       await page.goto("/");
       await expect(page.getByTestId(testId).isVisible(), who).resolves.toBe(true);
@@ -66,7 +57,7 @@ describe("accounts in the browser", () => {
 
   it("signs in through the form and signs out again", async () => {
     const u = await makeUser({ name: "Formy" });
-    const ctx = await contextWithCookie(browser);
+    const ctx = await contextWithCookie(browser());
     const page = await ctx.newPage();
     await page.goto("/sign-in?next=/my/entries");
     await page.getByLabel("E-mail").fill(u.email);

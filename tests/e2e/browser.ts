@@ -1,6 +1,8 @@
 import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
+import { afterAll, beforeAll } from "vitest";
+import { closeDb } from "~/db/client.server";
 
 /** Debian's Chromium driven by playwright-core (no browser download), with the flags this closed network needs. */
 export async function launch(): Promise<Browser> {
@@ -9,6 +11,26 @@ export async function launch(): Promise<Browser> {
     headless: true,
     args: ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run", "--disable-quic"],
   });
+}
+
+/**
+ * One browser for the test file: launched before the first test, closed after the last one together with the
+ * database pool (and whatever `alsoAfter` stops). Call the returned function inside tests.
+ */
+export function useBrowser(alsoAfter?: () => Promise<unknown>): () => Browser {
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await alsoAfter?.();
+    await closeDb();
+  });
+  return () => {
+    if (!browser) throw new Error("the browser is not launched yet: use it inside a test");
+    return browser;
+  };
 }
 
 export const baseUrl = (): string => {

@@ -1,8 +1,6 @@
 import { readFileSync } from "node:fs";
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { zipOf } from "../support/archives";
-import { closeDb } from "~/db/client.server";
 import { DEMO_RULESET } from "~/conformance/ruleset";
 import { queueCheckRun } from "~/conformance/queue.server";
 import { generateDemoLayout } from "~/gdsii/demo-layout";
@@ -10,18 +8,9 @@ import { stopQueue } from "~/jobs/queue.server";
 import { designPath } from "../../demo/designs/index";
 import { makeCompetitionWithEntry, makeCompleteUpload } from "../support/entries";
 import { makeEvent, makeUser, sessionCookie } from "../support/users";
-import { contextWithCookie, launch, screenshot } from "./browser";
+import { contextWithCookie, screenshot, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await stopQueue();
-  await closeDb();
-});
-
+const browser = useBrowser(stopQueue);
 
 describe("the live check report on the entry page", () => {
   it("follows a queued run through the worker to its report, and plays the capture only after the warning", async () => {
@@ -34,7 +23,7 @@ describe("the live check report on the entry page", () => {
     ]);
     await queueCheckRun(upload.id);
 
-    const ctx = await contextWithCookie(browser, await sessionCookie(captain));
+    const ctx = await contextWithCookie(browser(), await sessionCookie(captain));
     const page = await ctx.newPage();
     await page.goto(`/entries/${entry.id}`);
     const panel = page.getByTestId("check-run-panel");

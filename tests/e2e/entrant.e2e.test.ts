@@ -4,25 +4,18 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { eq } from "drizzle-orm";
 import { PNG } from "pngjs";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { ZipFile } from "yazl";
 import { DEMO_RULESET } from "~/conformance/ruleset";
-import { closeDb, db } from "~/db/client.server";
+import { db } from "~/db/client.server";
 import { competitions, entries, eventRoles, events, uploadFiles, uploads } from "~/db/schema";
 import { writeLayout } from "~/gdsii/writer";
 import { waitForMail } from "../support/mail";
 import { makeUser, sessionCookie, unique } from "../support/users";
-import { contextWithCookie, launch, screenshot } from "./browser";
+import { contextWithCookie, screenshot, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await closeDb();
-});
+const browser = useBrowser();
 
 /** Small valid files of each kind, made here: a zip of a .v file, a GDSII stream, a WebM from ffmpeg, a PNG. */
 async function makeFiles(dir: string) {
@@ -71,7 +64,7 @@ describe("an entrant in the browser", () => {
     const organizer = await makeUser({ name: "Orga" });
     await db().insert(eventRoles).values({ eventId: event.id, userId: organizer.id, role: "organizer" });
     const entrant = await makeUser({ name: "Beam Racer" });
-    const ctx = await contextWithCookie(browser, await sessionCookie(entrant));
+    const ctx = await contextWithCookie(browser(), await sessionCookie(entrant));
     const page = await ctx.newPage();
     const pageErrors: string[] = [];
     page.on("pageerror", (e) => pageErrors.push(e.message));
@@ -155,7 +148,7 @@ describe("an entrant in the browser", () => {
     // The organizer sees the entry (read-only dashboard).
     const [row] = await db().select().from(entries).where(eq(entries.id, entryId));
     expect(row.feeState).toBe("paid");
-    const orgCtx = await contextWithCookie(browser, await sessionCookie(organizer));
+    const orgCtx = await contextWithCookie(browser(), await sessionCookie(organizer));
     const orgPage = await orgCtx.newPage();
     await orgPage.goto(`/entries/${entryId}`);
     await orgPage.getByText("Organizer view (read-only)").waitFor();

@@ -1,19 +1,12 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { closeDb, db } from "~/db/client.server";
+import { describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { db } from "~/db/client.server";
 import { crewMembers } from "~/db/schema";
 import { sessionCookie } from "../support/users";
 import { makeCompo } from "../integration/judging-fixtures";
-import { contextWithCookie, launch, screenshot } from "./browser";
+import { contextWithCookie, screenshot, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await closeDb();
-});
+const browser = useBrowser();
 
 /** Presses Tab until a grid cell has the focus (keyboard only, bounded). */
 async function tabIntoGrid(page: Page): Promise<void> {
@@ -45,14 +38,14 @@ describe("judging in the browser", () => {
     // Judge B is in the crew of the last entry: that row must be absent from their grid.
     await db().insert(crewMembers).values({ crewId: compo.entries[3].crewId, userId: compo.judges[0].id });
 
-    const org = await contextWithCookie(browser, await sessionCookie(compo.organizer));
+    const org = await contextWithCookie(browser(), await sessionCookie(compo.organizer));
     const orgPage = await org.newPage();
     await orgPage.goto(`/organize/${compo.competitionId}/standings`);
     await orgPage.getByTestId("ranking").waitFor();
     const before = await orgPage.$$eval("[data-testid=ranking] [data-testid=score]", (tds) => tds.map((t) => t.textContent?.trim()));
     expect(before.every((t) => t === "–")).toBe(true);
 
-    const ctx = await contextWithCookie(browser, await sessionCookie(compo.judges[0]));
+    const ctx = await contextWithCookie(browser(), await sessionCookie(compo.judges[0]));
     const page = await ctx.newPage();
     await page.goto(`/judging/${compo.competitionId}`);
     await page.getByRole("grid", { name: "Scoring grid" }).waitFor();
@@ -127,7 +120,7 @@ describe("judging in the browser", () => {
   it("keeps a score typed while offline and saves it when the connection returns; a second tab's stale save shows the current value", async () => {
     const compo = await makeCompo({ judges: 1, entries: 2, title: "Flaky Wifi Compo" });
     const cookie = await sessionCookie(compo.judges[0]);
-    const ctx = await contextWithCookie(browser, cookie);
+    const ctx = await contextWithCookie(browser(), cookie);
     const page = await ctx.newPage();
     await page.goto(`/judging/${compo.competitionId}`);
     await page.getByRole("grid", { name: "Scoring grid" }).waitFor();

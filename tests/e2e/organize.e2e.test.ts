@@ -1,19 +1,11 @@
 import { eq } from "drizzle-orm";
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDb, db } from "~/db/client.server";
+import { describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
 import { checkRuns, competitions, crewMembers, crews, entries, uploads } from "~/db/schema";
 import { makeUser, sessionCookie, unique } from "../support/users";
-import { contextWithCookie, launch, screenshot } from "./browser";
+import { contextWithCookie, screenshot, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await closeDb();
-});
+const browser = useBrowser();
 
 /** Polls until the value matches, with a deadline (no fixed sleeps). */
 async function eventually<T>(read: () => Promise<T>, want: T, timeoutMs = 10_000): Promise<void> {
@@ -36,7 +28,7 @@ function monthAhead(): string {
 describe("the organizer in the browser", () => {
   it("announces an event and a compo with a ruleset, opens it, and reads the public rules page", async () => {
     const organizer = await makeUser({ name: "Mira Org" });
-    const ctx = await contextWithCookie(browser, await sessionCookie(organizer));
+    const ctx = await contextWithCookie(browser(), await sessionCookie(organizer));
     const page = await ctx.newPage();
 
     await page.goto("/organize/events/new");
@@ -102,7 +94,7 @@ describe("the organizer in the browser", () => {
   it("sorts, filters and narrows the entries table, and disqualifies with a reason", async () => {
     const organizer = await makeUser({ name: "Table Org" });
     const cookie = await sessionCookie(organizer);
-    const ctx = await contextWithCookie(browser, cookie);
+    const ctx = await contextWithCookie(browser(), cookie);
     const page = await ctx.newPage();
     await page.goto("/organize/events/new");
     await page.getByLabel("Event title").fill(`Table Party ${unique("t").slice(-6)}`);

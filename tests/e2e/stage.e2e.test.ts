@@ -1,20 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { closeDb } from "~/db/client.server";
+import { describe, expect, it } from "vitest";
 import { publishResults } from "~/results/results.server";
 import { castBallot } from "~/voting/voting.server";
 import { makeUser } from "../support/users";
 import { addCheckRun, addScores, makeCompo } from "../integration/showcase.fixtures";
-import { launch, screenshot, contextWithCookie } from "./browser";
+import { contextWithCookie, screenshot, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await closeDb();
-});
+const browser = useBrowser();
 
 describe("stage mode on the big screen", () => {
   it("walks through every screen with the keyboard: intro, entries, vote, reveal from last to first", async () => {
@@ -28,7 +19,7 @@ describe("stage mode on the big screen", () => {
     const published = await publishResults(f.competitionId, f.organizer.id, "");
     const expectedReveal = [...published.payload.standings].reverse().map((r) => r.title);
 
-    const ctx = await contextWithCookie(browser, f.organizerCookie);
+    const ctx = await contextWithCookie(browser(), f.organizerCookie);
     const page = await ctx.newPage();
     await page.setViewportSize({ width: 1920, height: 1080 });
     await page.goto(`/stage/${f.competitionId}`);

@@ -1,21 +1,12 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { closeDb } from "~/db/client.server";
+import { describe, expect, it } from "vitest";
 import { publishedResults } from "~/results/results.server";
 import { generateVoteCodes } from "~/voting/voting.server";
 import { waitForMail } from "../support/mail";
 import { makeUser, sessionCookie } from "../support/users";
 import { addCheckRun, addScores, makeCompo } from "../integration/showcase.fixtures";
-import { contextWithCookie, launch, screenshot } from "./browser";
+import { contextWithCookie, screenshot, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await closeDb();
-});
+const browser = useBrowser();
 
 describe("showcase, audience vote and published results in the browser", () => {
   it("an audience member watches and votes, a code-holder votes, the organizer publishes, results and e-mails agree", async () => {
@@ -30,7 +21,7 @@ describe("showcase, audience vote and published results in the browser", () => {
 
     // The audience member: showcase, entry page behind the warning, then the ranked ballot by keyboard.
     const voter = await makeUser({ name: "Hall Voter" });
-    const ctx = await contextWithCookie(browser, await sessionCookie(voter));
+    const ctx = await contextWithCookie(browser(), await sessionCookie(voter));
     const page = await ctx.newPage();
     await page.goto(`${base}/showcase`);
     await page.getByTestId("showcase-entries").waitFor();
@@ -68,7 +59,7 @@ describe("showcase, audience vote and published results in the browser", () => {
 
     // A code-holder at the party: a wrong code is refused, the right one casts.
     const [code] = await generateVoteCodes(f.competitionId, 1);
-    const anon = await contextWithCookie(browser);
+    const anon = await contextWithCookie(browser());
     const p2 = await anon.newPage();
     await p2.goto(`${base}/vote`);
     await p2.getByLabel("Vote code").fill("ZZZZ-ZZZZ");
@@ -84,7 +75,7 @@ describe("showcase, audience vote and published results in the browser", () => {
     await anon.close();
 
     // The organizer: live count, then preview and publish.
-    const org = await contextWithCookie(browser, f.organizerCookie);
+    const org = await contextWithCookie(browser(), f.organizerCookie);
     const op = await org.newPage();
     await op.goto(`/organize/${f.competitionId}/audience`);
     const countBox = op.getByTestId("live-count");
@@ -102,7 +93,7 @@ describe("showcase, audience vote and published results in the browser", () => {
 
     // The public results page shows what was frozen; the e-mails say the same places.
     const snap = (await publishedResults(f.competitionId))!;
-    const pub = await contextWithCookie(browser);
+    const pub = await contextWithCookie(browser());
     const rp = await pub.newPage();
     await rp.goto(`${base}/results`);
     await rp.getByTestId("standings").waitFor();
