@@ -9,7 +9,7 @@ import { join, resolve } from "node:path";
 import { parseArgs } from "node:util";
 import { ZodError } from "zod";
 import { runPipeline, type PipelineResult } from "~/conformance/pipeline.server";
-import { DEMO_RULESET, parseRuleset, type Ruleset } from "~/conformance/ruleset";
+import { DEMO_RULESET, parseRuleset, type Ruleset } from "~/rules/ruleset";
 
 class InputError extends Error {}
 

@@ -1,6 +1,6 @@
 import { z } from "zod";
-import { PIN_ROLES, rulesetSchema, TILE_SHAPE, type Ruleset, type RulesetInput } from "~/conformance/ruleset";
-import { VIDEO_MODES } from "~/conformance/video-modes";
+import { PIN_ROLES, rulesetSchema, TILE_SHAPE, type Ruleset, type RulesetInput } from "~/rules/ruleset";
+import { VIDEO_MODES } from "~/rules/video-modes";
 import { isValidTimeZone, utcToZonedWallTime, zonedWallTimeToUtc } from "./timezone";
 
 /**

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { isDue, transitionProblem, uploadsStopAt } from "./lifecycle";
 
 const now = new Date("2027-03-01T12:00:00Z");

@@ -1,4 +1,4 @@
-import { rulesetSchema } from "~/conformance/ruleset";
+import { rulesetSchema } from "~/rules/ruleset";
 
 /** The competition lifecycle draft → open → closed → judging → results, as pure rules (no database). */
 export const COMPETITION_STATES = ["draft", "open", "closed", "judging", "results"] as const;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { parseRulesetJson, rulesetJson } from "./ruleset-io";
 
 describe("ruleset JSON", () => {
@@ -39,7 +39,7 @@ describe("ruleset JSON", () => {
 describe("ruleset through the form", () => {
   it("comes back unchanged when saved without edits, even with byte limits that are not whole MiB", async () => {
     const { rulesetFromForm, rulesetToForm, rulesetFormSchema } = await import("./forms");
-    const { rulesetSchema } = await import("~/conformance/ruleset");
+    const { rulesetSchema } = await import("~/rules/ruleset");
     const odd = rulesetSchema.parse({ ...DEMO_RULESET, uploadLimits: { ...DEMO_RULESET.uploadLimits, bundleBytes: 1_000_000, layoutBytes: 12_345_678 }, pinLayer: { layer: 5, datatype: 20, edgeToleranceUm: 0.5 } });
     const asForm = rulesetToForm(odd);
     // The browser sends strings; Conform coerces them to numbers as the schema says — here by hand.

@@ -1,5 +1,5 @@
-import { rulesetSchema, type Ruleset } from "~/conformance/ruleset";
-import { VIDEO_MODES } from "~/conformance/video-modes";
+import { rulesetSchema, type Ruleset } from "~/rules/ruleset";
+import { VIDEO_MODES } from "~/rules/video-modes";
 
 /** Ruleset JSON import/export: zod validation with every issue named by its path, plus checks zod cannot make. */
 export type ParsedRuleset = { ok: true; ruleset: Ruleset } | { ok: false; errors: string[]; issues: { path: string; message: string }[] };

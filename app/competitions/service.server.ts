@@ -1,6 +1,6 @@
 import { and, asc, count, eq, inArray, lte, ne, notInArray } from "drizzle-orm";
 import { audit } from "~/audit/log.server";
-import { DEMO_RULESET, rulesetSchema, type Ruleset } from "~/conformance/ruleset";
+import { DEMO_RULESET, rulesetSchema, type Ruleset } from "~/rules/ruleset";
 import { db } from "~/db/client.server";
 import { competitions, criteria, entries, eventRoles, events } from "~/db/schema";
 import { slugify, type CompetitionValues, type EventForm } from "./forms";

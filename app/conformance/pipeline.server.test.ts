@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { zipOf } from "../../tests/support/archives";
 import { designPath } from "../../demo/designs/index";
 import { runPipeline, type PipelineResult } from "./pipeline.server";
-import { DEMO_RULESET } from "./ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 
 /**
  * The pipeline with an uploaded capture video: the entrant's own recording of the reference (re-encoded by

@@ -12,8 +12,8 @@ import { compareVideoFile } from "~/simulation/compare-video.server";
 import { runReferenceCapture } from "~/simulation/capture.server";
 import { flashFindings } from "~/simulation/flash";
 import { analyzeVideoFile } from "~/simulation/flash-video.server";
-import { worstVerdict, type CheckStep, type Finding, type Verdict } from "./findings";
-import type { Ruleset } from "./ruleset";
+import { worstVerdict, type CheckStep, type Finding, type Verdict } from "~/rules/findings";
+import type { Ruleset } from "~/rules/ruleset";
 
 /**
  * The conformance check of one upload, shared by the worker and the `npm run check` CLI.

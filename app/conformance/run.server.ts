@@ -6,7 +6,7 @@ import { db } from "~/db/client.server";
 import { artifacts, checkRuns, competitions, entries, findings, uploadFiles, uploads } from "~/db/schema";
 import { env } from "~/env.server";
 import { getObjectStream, putObject } from "~/storage/s3.server";
-import { parseRuleset } from "./ruleset";
+import { parseRuleset } from "~/rules/ruleset";
 import { runPipeline } from "./pipeline.server";
 
 const EXT: Record<string, string> = { bundle: "archive", layout: "gds", video: "video", still: "img" };

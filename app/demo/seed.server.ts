@@ -2,7 +2,7 @@ import { eq } from "drizzle-orm";
 import { auth } from "~/auth/auth.server";
 import type { Db } from "~/db/client.server";
 import { account, competitions, crewMembers, crews, criteria, entries, eventRoles, events, juryAssignments, user } from "~/db/schema";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { DEMO_DESIGNS } from "../../demo/designs/index";
 import { DEMO_COMPETITIONS, DEMO_CRITERIA, DEMO_EVENT, DEMO_PASSWORD, DEMO_PEOPLE } from "./scenario";
 

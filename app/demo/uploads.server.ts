@@ -4,7 +4,7 @@ import { createHash } from "node:crypto";
 import yazl from "yazl";
 import type { Db } from "~/db/client.server";
 import { entries, uploadFiles, uploads } from "~/db/schema";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { queueCheckRun } from "~/conformance/queue.server";
 import { generateDemoLayout } from "~/gdsii/demo-layout";
 import { putObject } from "~/storage/s3.server";

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { MIN_PART_BYTES, partPlan, safeFilename, sizeProblem } from "./parts";
 
 describe("partPlan", () => {

@@ -1,4 +1,4 @@
-import type { Ruleset } from "~/conformance/ruleset";
+import type { Ruleset } from "~/rules/ruleset";
 import type { FileKind } from "./sniff";
 
 /**

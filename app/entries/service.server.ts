@@ -2,7 +2,7 @@ import { and, desc, eq, inArray, ne } from "drizzle-orm";
 import { isAdmin, type SessionUser } from "~/auth/guards.server";
 import { competitions, crewMembers, crews, entries, eventRoles, events, uploadFiles, uploads } from "~/db/schema";
 import { db } from "~/db/client.server";
-import { parseRuleset, type Ruleset } from "~/conformance/ruleset";
+import { parseRuleset, type Ruleset } from "~/rules/ruleset";
 import { audit } from "~/audit/log.server";
 import { cutoffOf } from "./deadline";
 import type { UploadRow } from "./shapes";

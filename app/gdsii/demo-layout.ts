@@ -1,4 +1,4 @@
-import { DEMO_RULESET, TILE_SHAPE, type Ruleset } from "~/conformance/ruleset";
+import { DEMO_RULESET, TILE_SHAPE, type Ruleset } from "~/rules/ruleset";
 import { DIE_OUTLINE_LAYER } from "./conventions";
 import { writeLayout, type GdsElement, type GdsLibrary, type GdsStructure } from "./writer";
 

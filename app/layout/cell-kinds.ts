@@ -1,4 +1,4 @@
-import { compileCellPattern, type Ruleset } from "~/conformance/ruleset";
+import { compileCellPattern, type Ruleset } from "~/rules/ruleset";
 import { FILL_CELL_PATTERN } from "~/gdsii/conventions";
 import type { LayoutSummary } from "~/gdsii/summary";
 

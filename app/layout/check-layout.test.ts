@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { worstVerdict } from "~/conformance/findings";
-import { DEMO_RULESET, rulesetSchema, DEMO_PINS } from "~/conformance/ruleset";
+import { worstVerdict } from "~/rules/findings";
+import { DEMO_RULESET, rulesetSchema, DEMO_PINS } from "~/rules/ruleset";
 import { generateDemoLayout } from "~/gdsii/demo-layout";
 import { readLayout } from "~/gdsii/reader";
 import { writeLayout } from "~/gdsii/writer";

@@ -1,5 +1,5 @@
-import type { Finding } from "~/conformance/findings";
-import { compileCellPattern, type Ruleset } from "~/conformance/ruleset";
+import type { Finding } from "~/rules/findings";
+import { compileCellPattern, type Ruleset } from "~/rules/ruleset";
 import { DIE_OUTLINE_LAYER, FILL_CELL_PATTERN } from "~/gdsii/conventions";
 import type { BoxUm, LayoutSummary } from "~/gdsii/summary";
 

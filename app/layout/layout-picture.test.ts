@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { PNG } from "pngjs";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { generateDemoLayout } from "~/gdsii/demo-layout";
 import { readLayout } from "~/gdsii/reader";
 import { KIND_STYLE } from "./cell-kinds";

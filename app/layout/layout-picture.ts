@@ -1,4 +1,4 @@
-import type { Ruleset } from "~/conformance/ruleset";
+import type { Ruleset } from "~/rules/ruleset";
 import type { BoxUm, LayoutSummary } from "~/gdsii/summary";
 import { CELL_KINDS, cellKinder, KIND_STYLE, type CellKind } from "./cell-kinds";
 

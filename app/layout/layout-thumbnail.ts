@@ -1,5 +1,5 @@
 import { PNG } from "pngjs";
-import type { Ruleset } from "~/conformance/ruleset";
+import type { Ruleset } from "~/rules/ruleset";
 import type { BoxUm, LayoutSummary } from "~/gdsii/summary";
 import { CELL_KINDS, cellKinder, KIND_STYLE } from "./cell-kinds";
 

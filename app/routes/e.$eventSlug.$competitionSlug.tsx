@@ -1,6 +1,6 @@
 import { useEffect, useState } from "react";
 import { data, Link } from "react-router";
-import { VIDEO_MODES } from "~/conformance/video-modes";
+import { VIDEO_MODES } from "~/rules/video-modes";
 import { formatFee } from "~/competitions/forms";
 import { uploadsStopAt } from "~/competitions/lifecycle";
 import { publicCompetition } from "~/competitions/public.server";

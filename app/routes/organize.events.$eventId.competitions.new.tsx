@@ -1,6 +1,6 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { redirect, useActionData, useNavigation } from "react-router";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { requireOrganizerEvent } from "~/competitions/access.server";
 import { competitionFormSchema, competitionToForm, competitionValues } from "~/competitions/forms";
 import { createCompetition } from "~/competitions/service.server";

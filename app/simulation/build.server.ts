@@ -1,6 +1,6 @@
 import { copyFileSync, existsSync, lstatSync, mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { dirname, isAbsolute, join, normalize } from "node:path";
-import { pinsByRole, type Ruleset } from "~/conformance/ruleset";
+import { pinsByRole, type Ruleset } from "~/rules/ruleset";
 import { runSandboxed, type SandboxResult } from "~/sandbox/sandbox.server";
 import { edgeModeHeader, edgeModeOf, type EdgeMode } from "./edge-mode";
 import { generateHarness } from "./harness";

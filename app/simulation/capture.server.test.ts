@@ -3,8 +3,8 @@ import { chmodSync, copyFileSync, mkdtempSync, readFileSync, rmSync, statSync, w
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Finding } from "~/conformance/findings";
-import { DEMO_RULESET, rulesetSchema } from "~/conformance/ruleset";
+import type { Finding } from "~/rules/findings";
+import { DEMO_RULESET, rulesetSchema } from "~/rules/ruleset";
 import { pcmFromBuffer } from "./audio";
 import { runReferenceCapture, type ReferenceCapture } from "./capture.server";
 

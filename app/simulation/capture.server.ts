@@ -1,8 +1,8 @@
 import { readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
-import type { Finding } from "~/conformance/findings";
-import type { Ruleset } from "~/conformance/ruleset";
-import { videoMode } from "~/conformance/video-modes";
+import type { Finding } from "~/rules/findings";
+import type { Ruleset } from "~/rules/ruleset";
+import { videoMode } from "~/rules/video-modes";
 import { audioFigures, encodeWav, pcmFromBuffer, waveformSvg, type AudioFigures } from "./audio";
 import { simulateDesign, type SimulationFailureReason, type SimulationFailureStage } from "./build.server";
 import type { LumaSequence } from "./compare";

@@ -1,5 +1,5 @@
-import type { Finding } from "~/conformance/findings";
-import type { Ruleset } from "~/conformance/ruleset";
+import type { Finding } from "~/rules/findings";
+import type { Ruleset } from "~/rules/ruleset";
 import type { RgbImage } from "./frames";
 
 /**

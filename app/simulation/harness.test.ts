@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { DEMO_PINS, DEMO_RULESET, rulesetSchema } from "~/conformance/ruleset";
+import { DEMO_PINS, DEMO_RULESET, rulesetSchema } from "~/rules/ruleset";
 import { generateHarness, HarnessError } from "./harness";
 import { contactSheet, encodePng, FrameError, spreadIndices } from "./frames";
 import { PNG } from "pngjs";

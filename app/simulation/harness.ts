@@ -1,5 +1,5 @@
-import type { Pin, Ruleset } from "~/conformance/ruleset";
-import { videoMode } from "~/conformance/video-modes";
+import type { Pin, Ruleset } from "~/rules/ruleset";
+import { videoMode } from "~/rules/video-modes";
 
 /**
  * Generates the verilator C++ harness for a ruleset. All per-clock work happens in C++:

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { DEMO_RULESET } from "~/conformance/ruleset";
-import { videoMode } from "~/conformance/video-modes";
+import { DEMO_RULESET } from "~/rules/ruleset";
+import { videoMode } from "~/rules/video-modes";
 import type { HarnessSummary } from "./summary";
 import { measureVideo, timingFindings } from "./timing";
 

@@ -1,6 +1,6 @@
-import type { Finding } from "~/conformance/findings";
-import type { Ruleset } from "~/conformance/ruleset";
-import { videoMode, type VideoMode } from "~/conformance/video-modes";
+import type { Finding } from "~/rules/findings";
+import type { Ruleset } from "~/rules/ruleset";
+import { videoMode, type VideoMode } from "~/rules/video-modes";
 import type { HarnessSummary, SyncMeasurement } from "./summary";
 
 /** Judges the harness's raw sync measurements against the ruleset's video mode. */

@@ -5,7 +5,7 @@ import { chmod, mkdtemp, readFile, rm, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { runSandboxed } from "~/sandbox/sandbox.server";
 import { hostileDesigns, hostileModel, writeDesign, type HostileTargets } from "../../tests/fixtures/hostile/designs";
 import { precheckPassed, precheckSources, scanPreprocessedSources } from "./precheck.server";

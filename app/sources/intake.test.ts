@@ -6,7 +6,7 @@ import { mkdtemp, readFile, rm, truncate, stat, writeFile } from "node:fs/promis
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { renameInPlace, writeTarGz, writeZip } from "../../tests/fixtures/hostile/archives";
 import { BundleError, extractBundle, sha256File, type BundleLimits } from "./intake.server";
 

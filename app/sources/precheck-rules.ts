@@ -1,4 +1,4 @@
-import type { Finding } from "~/conformance/findings";
+import type { Finding } from "~/rules/findings";
 import { scanVerilog, type Token } from "./verilog-lexer";
 
 /**

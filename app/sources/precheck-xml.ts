@@ -1,4 +1,4 @@
-import type { Finding } from "~/conformance/findings";
+import type { Finding } from "~/rules/findings";
 import { ALLOWED_SYSTEM_FUNCTIONS } from "./precheck-rules";
 
 /**

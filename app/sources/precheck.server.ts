@@ -1,7 +1,7 @@
 import { copyFile, mkdir, mkdtemp, readFile, rm, stat } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { dirname, join } from "node:path";
-import { worstVerdict, type Finding } from "~/conformance/findings";
+import { worstVerdict, type Finding } from "~/rules/findings";
 import { runSandboxed, type SandboxLimits } from "~/sandbox/sandbox.server";
 import { dedupeFindings, definedMacros, mapPreprocessed, scanText } from "./precheck-rules";
 import { scanVerilatorXml } from "./precheck-xml";

@@ -1,5 +1,5 @@
-import type { Finding } from "~/conformance/findings";
-import type { Pin, Ruleset } from "~/conformance/ruleset";
+import type { Finding } from "~/rules/findings";
+import type { Pin, Ruleset } from "~/rules/ruleset";
 
 /** What the source checks measured; the pure half of the yosys step. */
 export interface SourcePort {

@@ -1,8 +1,8 @@
 import { copyFile, mkdir, mkdtemp, readFile, rm, stat } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import type { Finding } from "~/conformance/findings";
-import type { Ruleset } from "~/conformance/ruleset";
+import type { Finding } from "~/rules/findings";
+import type { Ruleset } from "~/rules/ruleset";
 import { runSandboxed, type SandboxLimits } from "~/sandbox/sandbox.server";
 import { compileOrder, trimToolMessage } from "./precheck.server";
 import {

@@ -2,7 +2,7 @@ import { mkdtemp, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_RULESET, rulesetSchema, type Ruleset } from "~/conformance/ruleset";
+import { DEMO_RULESET, rulesetSchema, type Ruleset } from "~/rules/ruleset";
 import { writeDesign } from "../../tests/fixtures/hostile/designs";
 import { runSourceChecks } from "./yosys.server";
 

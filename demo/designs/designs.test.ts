@@ -4,7 +4,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_PINS, DEMO_RULESET } from "../../app/conformance/ruleset";
+import { DEMO_PINS, DEMO_RULESET } from "../../app/rules/ruleset";
 import { DEMO_DESIGNS, designPath, type DemoDesign } from "./index";
 
 // yosys (Debian) and Icarus Verilog are the references here. These are our own trusted demo

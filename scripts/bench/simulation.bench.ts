@@ -5,7 +5,7 @@ import { execFileSync } from "node:child_process";
 import { chmodSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { DEMO_RULESET } from "../../app/conformance/ruleset";
+import { DEMO_RULESET } from "../../app/rules/ruleset";
 import { RUNTIME_CXX_FLAGS } from "../../app/simulation/build.server";
 import { runReferenceCapture, type ReferenceCapture } from "../../app/simulation/capture.server";
 import { verilatorRuntime } from "../../app/simulation/runtime-cache.server";

@@ -1,7 +1,7 @@
 import { writeFile } from "node:fs/promises";
 import { join } from "node:path";
 import { generateDemoLayout } from "~/gdsii/demo-layout";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { renameInPlace, writeTarGz, writeZip } from "../fixtures/hostile/archives";
 
 /**

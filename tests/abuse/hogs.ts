@@ -6,7 +6,7 @@
 import { chmodSync, mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { DEMO_RULESET, type Ruleset } from "~/conformance/ruleset";
+import { DEMO_RULESET, type Ruleset } from "~/rules/ruleset";
 import { runPipeline } from "~/conformance/pipeline.server";
 import { writeZip } from "../fixtures/hostile/archives";
 import { HOGS } from "./corpus";

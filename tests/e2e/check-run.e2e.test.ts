@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { zipOf } from "../support/archives";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { queueCheckRun } from "~/conformance/queue.server";
 import { generateDemoLayout } from "~/gdsii/demo-layout";
 import { stopQueue } from "~/jobs/queue.server";

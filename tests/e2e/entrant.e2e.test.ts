@@ -7,7 +7,7 @@ import { PNG } from "pngjs";
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { ZipFile } from "yazl";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { db } from "~/db/client.server";
 import { competitions, entries, eventRoles, events, uploadFiles, uploads } from "~/db/schema";
 import { writeLayout } from "~/gdsii/writer";

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { zipOf } from "../support/archives";
 import { closeDb, db } from "~/db/client.server";
 import { artifacts, checkRuns, findings } from "~/db/schema";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { executeCheckRun } from "~/conformance/run.server";
 import { queueCheckRun } from "~/conformance/queue.server";
 import { generateDemoLayout } from "~/gdsii/demo-layout";

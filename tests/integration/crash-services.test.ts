@@ -88,7 +88,7 @@ describe("a worker killed in the middle of a check run", () => {
     const { makeEvent, makeUser } = await import("../support/users");
     const { makeCompetitionWithEntry, makeCompleteUpload } = await import("../support/entries");
     const { generateDemoLayout } = await import("~/gdsii/demo-layout");
-    const { DEMO_RULESET } = await import("~/conformance/ruleset");
+    const { DEMO_RULESET } = await import("~/rules/ruleset");
     const { checkRuns, findings, artifacts } = mod.schema;
     const db = mod.db.db;
 
@@ -171,7 +171,7 @@ describe("the object store is down during an upload", () => {
 
     const bytes = await zipOf("xor.v", readFileSync(designPath("xor-tide")));
     const { generateDemoLayout } = await import("~/gdsii/demo-layout");
-    const { DEMO_RULESET } = await import("~/conformance/ruleset");
+    const { DEMO_RULESET } = await import("~/rules/ruleset");
     const gds = Buffer.from(generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 30, logicCells: 200, seed: 5 }).bytes);
     const started = await post(`/api/entries/${s.entry.id}/uploads`, {
       files: [

@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { competitions, crewMembers, crews, entries, events } from "~/db/schema";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import { makeUser, sessionCookie, unique, type TestUser } from "../support/users";
 
 /** Fixtures for the entrant tests: each call makes its own event, competition, crew and entry. */

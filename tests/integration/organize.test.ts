@@ -2,7 +2,7 @@ import { and, eq } from "drizzle-orm";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDueCompetitions } from "~/competitions/service.server";
 import { competitionToForm } from "~/competitions/forms";
-import { DEMO_RULESET, rulesetSchema } from "~/conformance/ruleset";
+import { DEMO_RULESET, rulesetSchema } from "~/rules/ruleset";
 import { closeDb, db } from "~/db/client.server";
 import { auditLog, checkRuns, competitions, crewMembers, crews, criteria, entries, eventRoles, events, outbox, uploadFiles, uploads } from "~/db/schema";
 import { stopQueue } from "~/jobs/queue.server";

@@ -4,7 +4,7 @@ import { tmpdir } from "node:os";
 import type { RequestListener } from "node:http";
 import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_RULESET, type Ruleset } from "~/conformance/ruleset";
+import { DEMO_RULESET, type Ruleset } from "~/rules/ruleset";
 import { runPipeline } from "~/conformance/pipeline.server";
 import { closeDb } from "~/db/client.server";
 import { stopQueue } from "~/jobs/queue.server";

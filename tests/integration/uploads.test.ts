@@ -8,7 +8,7 @@ import { MIN_PART_BYTES } from "~/entries/parts";
 import { completeUpload, confirmFile, startUpload, sweepStaleUploads, uploadForUploader } from "~/entries/uploads.server";
 import { rulesetOf } from "~/entries/service.server";
 import { hashObject, headObject } from "~/storage/s3.server";
-import { DEMO_RULESET } from "~/conformance/ruleset";
+import { DEMO_RULESET } from "~/rules/ruleset";
 import * as startApi from "~/routes/api.entries.$entryId.uploads";
 import * as uploadApi from "~/routes/api.uploads.$uploadId";
 import * as fileApi from "~/routes/api.uploads.$uploadId.files.$fileId";

@@ -1,7 +1,7 @@
 import { createHash } from "node:crypto";
 import { competitions, crewMembers, crews, entries, uploadFiles, uploads } from "~/db/schema";
 import { db } from "~/db/client.server";
-import { DEMO_RULESET, type Ruleset } from "~/conformance/ruleset";
+import { DEMO_RULESET, type Ruleset } from "~/rules/ruleset";
 import { putObject } from "~/storage/s3.server";
 import { unique } from "./users";
 

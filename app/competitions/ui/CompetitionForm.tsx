@@ -2,8 +2,8 @@ import { getFormProps, useForm, type SubmissionResult } from "@conform-to/react"
 import { parseWithZod } from "@conform-to/zod/v4";
 import { Form } from "react-router";
 import { FormErrors } from "~/components/FormField";
-import { PIN_ROLES } from "~/conformance/ruleset";
-import { VIDEO_MODES } from "~/conformance/video-modes";
+import { PIN_ROLES } from "~/rules/ruleset";
+import { VIDEO_MODES } from "~/rules/video-modes";
 import { competitionFormSchema, type competitionToForm } from "../forms";
 import { CellInput, CellSelect, Check, FieldError, Input, Select, TextArea } from "./fields";
 

@@ -1,4 +1,4 @@
-import { VIDEO_MODES } from "~/conformance/video-modes";
+import { VIDEO_MODES } from "~/rules/video-modes";
 
 export interface VideoFigures {
   hsync: { periodClocks: number | null; pulseClocks: number | null; polarity: string | null };
