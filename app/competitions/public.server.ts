@@ -2,7 +2,7 @@ import { and, eq } from "drizzle-orm";
 import { getSession, isAdmin } from "~/auth/guards.server";
 import { db } from "~/db/client.server";
 import { competitions, eventRoles, events } from "~/db/schema";
-import { buildCalendar, type CalendarItem } from "./ical";
+import { compoSlots, slotsCalendar, type TimetableCompo } from "~/party/timetable";
 import { closeIfDue, criteriaOf, storedRuleset } from "./service.server";
 
 /**
@@ -33,31 +33,7 @@ export async function publicCompetition(request: Request, eventSlug: string | un
   return { competition, event: row.e, ruleset, criteria: await criteriaOf(competition.id), preview };
 }
 
-export function competitionCalendar(
-  c: { id: string; title: string; deadlineAt: Date | null; graceMinutes: number; votingOpensAt: Date | null; votingClosesAt: Date | null },
-  e: { title: string; venue: string; timeZone: string },
-  pageUrl: string,
-  now: Date,
-): string {
-  const items: CalendarItem[] = [];
-  if (c.deadlineAt)
-    items.push({
-      uid: `deadline-${c.id}@gatecrash`,
-      summary: `Entry deadline: ${c.title}`,
-      description: `Uploads must be complete by this time${c.graceMinutes ? ` (uploads finishing within ${c.graceMinutes} minutes after it still count)` : ""}. Event: ${e.title}. Times are in UTC; the event runs on ${e.timeZone}.`,
-      location: e.venue || undefined,
-      url: pageUrl,
-      start: c.deadlineAt,
-    });
-  if (c.votingOpensAt && c.votingClosesAt)
-    items.push({
-      uid: `voting-${c.id}@gatecrash`,
-      summary: `Audience voting: ${c.title}`,
-      description: `One ballot per person during this window. Event: ${e.title}.`,
-      location: e.venue || undefined,
-      url: pageUrl,
-      start: c.votingOpensAt,
-      end: c.votingClosesAt,
-    });
-  return buildCalendar({ name: `${c.title} — ${e.title}`, items, now });
+/** The compo's deadline, vote window and show as an iCalendar file (the same slots as the party timetable). */
+export function competitionCalendar(c: TimetableCompo, e: { title: string; slug: string; venue: string; timeZone: string }, pageUrl: string, now: Date): string {
+  return slotsCalendar({ name: `${c.title} — ${e.title}`, party: e, compos: [c], slots: compoSlots(c), pageUrl: () => pageUrl, now });
 }

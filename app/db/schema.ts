@@ -176,6 +176,9 @@ export const competitions = pgTable(
     orderSeed: text("order_seed").notNull().default(sql`md5(random()::text)`),
     stageFlashMode: text("stage_flash_mode").notNull().default("dim"), // dim | skip
     judgingLocked: boolean("judging_locked").notNull().default(false),
+    /** When the compo's entries are shown on the big screen (the party timetable); null = not scheduled yet. */
+    showStartsAt: ts("show_starts_at"),
+    showMinutes: integer("show_minutes").notNull().default(60),
     createdAt: created(),
     updatedAt: ts("updated_at").notNull().defaultNow(),
   },
@@ -474,15 +477,38 @@ export const scoreHistory = pgTable(
 );
 
 // ---------- audience ----------
-export const voteCodes = pgTable("vote_codes", {
-  id: uuid("id").primaryKey().defaultRandom(),
-  competitionId: uuid("competition_id")
-    .notNull()
-    .references(() => competitions.id, { onDelete: "cascade" }),
-  code: text("code").notNull().unique(),
-  createdAt: created(),
-  redeemedAt: ts("redeemed_at"),
-});
+/**
+ * A vote code is one slip. It belongs to a party and votes in the compos of its scope rows: one row for a
+ * compo's own sheet, several for a party-wide sheet. It is redeemed once per compo (vote_code_scopes.redeemed_at).
+ */
+export const voteCodes = pgTable(
+  "vote_codes",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    eventId: uuid("event_id")
+      .notNull()
+      .references(() => events.id, { onDelete: "cascade" }),
+    code: text("code").notNull().unique(),
+    /** true: printed on the party-wide sheet; false: on one compo's own sheet. */
+    partyWide: boolean("party_wide").notNull().default(false),
+    createdAt: created(),
+  },
+  (t) => [index("vote_codes_event_idx").on(t.eventId)],
+);
+
+export const voteCodeScopes = pgTable(
+  "vote_code_scopes",
+  {
+    voteCodeId: uuid("vote_code_id")
+      .notNull()
+      .references(() => voteCodes.id, { onDelete: "cascade" }),
+    competitionId: uuid("competition_id")
+      .notNull()
+      .references(() => competitions.id, { onDelete: "cascade" }),
+    redeemedAt: ts("redeemed_at"),
+  },
+  (t) => [primaryKey({ columns: [t.voteCodeId, t.competitionId] }), index("vote_code_scopes_competition_idx").on(t.competitionId)],
+);
 
 export const ballots = pgTable(
   "ballots",
@@ -530,6 +556,24 @@ export const resultsSnapshots = pgTable(
     publishedAt: ts("published_at").notNull().defaultNow(),
   },
   (t) => [uniqueIndex("results_competition_version").on(t.competitionId, t.version)],
+);
+
+/** A party's special awards (jury's choice, best sound …), each with at most one winning entry. */
+export const awards = pgTable(
+  "awards",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    eventId: uuid("event_id")
+      .notNull()
+      .references(() => events.id, { onDelete: "cascade" }),
+    title: text("title").notNull(),
+    citation: text("citation").notNull().default(""),
+    winnerEntryId: uuid("winner_entry_id").references(() => entries.id, { onDelete: "set null" }),
+    position: integer("position").notNull().default(0),
+    createdAt: created(),
+    updatedAt: ts("updated_at").notNull().defaultNow(),
+  },
+  (t) => [index("awards_event_idx").on(t.eventId)],
 );
 
 // ---------- mail and audit ----------

@@ -1,13 +1,10 @@
 import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
+import { codeSheetCsv, csvResponse } from "~/voting/code-sheet.server";
 import { voteCodesOf } from "~/voting/voting.server";
 import type { Route } from "./+types/organize.audience.codes-csv";
 
-/** Every vote code of the competition as CSV (code, created_at, redeemed_at). */
+/** Every code that votes in this compo, its own and the party-wide ones, as CSV. */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
-  const rows = await voteCodesOf(c.id);
-  const body = ["code,created_at,redeemed_at", ...rows.map((r) => `${r.code},${r.createdAt},${r.redeemedAt ?? ""}`)].join("\r\n") + "\r\n";
-  return new Response(body, {
-    headers: { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="vote-codes-${c.slug}.csv"`, "Cache-Control": "no-store" },
-  });
+  return csvResponse(codeSheetCsv(await voteCodesOf(c.id)), `vote-codes-${c.slug}.csv`);
 }

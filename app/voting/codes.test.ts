@@ -23,12 +23,13 @@ describe("vote codes", () => {
     expect(normaliseCode("KX7M-Q2H0")).toBeNull(); // 0 is not in the alphabet
   });
 
-  it("holder tokens verify only for the same code and redemption moment", () => {
+  it("holder tokens verify only for the same code, compo and redemption moment", () => {
     const at = new Date("2027-05-01T20:00:00Z");
-    const t = codeHolderToken("s".repeat(32), "code-1", at);
+    const t = codeHolderToken("s".repeat(32), "code-1", "compo-a", at);
     expect(readCodeHolderToken(t)?.codeId).toBe("code-1");
-    expect(tokenMatches("s".repeat(32), t, "code-1", at)).toBe(true);
-    expect(tokenMatches("s".repeat(32), t, "code-1", new Date(at.getTime() + 1))).toBe(false);
-    expect(tokenMatches("t".repeat(32), t, "code-1", at)).toBe(false);
+    expect(tokenMatches("s".repeat(32), t, "code-1", "compo-a", at)).toBe(true);
+    expect(tokenMatches("s".repeat(32), t, "code-1", "compo-b", at)).toBe(false);
+    expect(tokenMatches("s".repeat(32), t, "code-1", "compo-a", new Date(at.getTime() + 1))).toBe(false);
+    expect(tokenMatches("t".repeat(32), t, "code-1", "compo-a", at)).toBe(false);
   });
 });

@@ -27,12 +27,13 @@ export function normaliseCode(input: string): string | null {
 }
 
 /**
- * The proof a browser keeps after redeeming a code, so the same holder can change the ballot until close while
- * nobody else can use the code again: an HMAC over the code's id and the moment it was redeemed (known only
- * to the server and to the browser that redeemed it).
+ * The proof a browser keeps after redeeming a code in one compo, so the same holder can change that ballot until
+ * close while nobody else can use the code there again: an HMAC over the code's id, the compo and the moment it
+ * was redeemed there (known only to the server and to the browser that redeemed it). A party-wide code is
+ * redeemed once per compo, so each compo has its own token.
  */
-export function codeHolderToken(secret: string, codeId: string, redeemedAt: Date): string {
-  const mac = createHmac("sha256", secret).update(`vote-code:${codeId}:${redeemedAt.getTime()}`).digest("base64url");
+export function codeHolderToken(secret: string, codeId: string, competitionId: string, redeemedAt: Date): string {
+  const mac = createHmac("sha256", secret).update(`vote-code:${codeId}:${competitionId}:${redeemedAt.getTime()}`).digest("base64url");
   return `${codeId}.${mac}`;
 }
 
@@ -42,8 +43,8 @@ export function readCodeHolderToken(token: string): { codeId: string; mac: strin
   return { codeId: token.slice(0, i), mac: token.slice(i + 1) };
 }
 
-export function tokenMatches(secret: string, token: string, codeId: string, redeemedAt: Date): boolean {
+export function tokenMatches(secret: string, token: string, codeId: string, competitionId: string, redeemedAt: Date): boolean {
   const a = Buffer.from(token);
-  const b = Buffer.from(codeHolderToken(secret, codeId, redeemedAt));
+  const b = Buffer.from(codeHolderToken(secret, codeId, competitionId, redeemedAt));
   return a.length === b.length && timingSafeEqual(a, b);
 }

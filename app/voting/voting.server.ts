@@ -1,10 +1,11 @@
-import { and, count, eq, sql } from "drizzle-orm";
+import { and, count, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { ballotHistory, ballots, competitions, voteCodes } from "~/db/schema";
+import { ballotHistory, ballots, competitions } from "~/db/schema";
 import { env } from "~/env.server";
 import { tallyBorda, tallyPoints, tallySchulze, validateBallot, type BallotProblem, type PointsBallot, type RankedBallot } from "~/scoring/ballots";
 import { eligibleEntries } from "~/showcase/showcase.server";
-import { codeHolderToken, generateCode, normaliseCode, readCodeHolderToken, tokenMatches } from "./codes";
+import { codeCounts, codesOfCompetition, issueVoteCodes, redeemCode, redeemedAtIn } from "./code-book.server";
+import { codeHolderToken, normaliseCode, readCodeHolderToken, tokenMatches } from "./codes";
 import { hitRateLimit } from "./rate-limit.server";
 
 /**
@@ -23,7 +24,7 @@ export const CAST_LIMIT = 10;
 export const CAST_WINDOW_S = 60;
 export const CODE_ATTEMPT_LIMIT = 20;
 export const CODE_ATTEMPT_WINDOW_S = 60;
-export const MAX_CODES_PER_BATCH = 500;
+export { MAX_CODES_PER_BATCH } from "./code-book.server";
 
 export type BallotMethod = "points" | "borda" | "schulze";
 export type BallotContent = PointsBallot | RankedBallot;
@@ -100,12 +101,9 @@ export async function codeHolderFromCookie(competitionId: string, cookieHeader: 
   const token = decodeURIComponent(raw);
   const parsed = readCodeHolderToken(token);
   if (!parsed || !/^[0-9a-f-]{36}$/.test(parsed.codeId)) return null;
-  const [code] = await db()
-    .select({ id: voteCodes.id, redeemedAt: voteCodes.redeemedAt })
-    .from(voteCodes)
-    .where(and(eq(voteCodes.id, parsed.codeId), eq(voteCodes.competitionId, competitionId)));
-  if (!code?.redeemedAt) return null;
-  return tokenMatches(env().BETTER_AUTH_SECRET, token, code.id, code.redeemedAt) ? code.id : null;
+  const redeemedAt = await redeemedAtIn(parsed.codeId, competitionId);
+  if (!redeemedAt) return null;
+  return tokenMatches(env().BETTER_AUTH_SECRET, token, parsed.codeId, competitionId, redeemedAt) ? parsed.codeId : null;
 }
 
 export function codeHolderCookie(competitionId: string, token: string, closesAt: Date | null): string {
@@ -167,20 +165,15 @@ export async function castBallot(opts: { competitionId: string; voter: Voter; co
     if (v.kind === "user") voterUserId = v.userId;
     else if (v.kind === "code") voteCodeId = v.codeId;
     else {
-      const [redeemed] = await tx
-        .update(voteCodes)
-        .set({ redeemedAt: now })
-        .where(and(eq(voteCodes.competitionId, c.id), eq(voteCodes.code, normalisedCode!), sql`${voteCodes.redeemedAt} is null`))
-        .returning({ id: voteCodes.id, redeemedAt: voteCodes.redeemedAt });
-      if (!redeemed) {
+      const redeemed = await redeemCode(tx, c.id, normalisedCode!, now);
+      if (redeemed.kind !== "redeemed") {
         const hit = await hitRateLimit(`code-attempts:${c.id}`, CODE_ATTEMPT_LIMIT, CODE_ATTEMPT_WINDOW_S, now);
         if (!hit.allowed) throw new VoteError("rate_limited", 429, `Too many wrong codes here just now. Try again in ${hit.retryAfterSeconds} s.`, [], hit.retryAfterSeconds);
-        const [exists] = await tx.select({ id: voteCodes.id }).from(voteCodes).where(and(eq(voteCodes.competitionId, c.id), eq(voteCodes.code, normalisedCode!)));
-        if (exists) throw new VoteError("code_used", 409, "This vote code has already been used. Each code makes one ballot, changeable only from the browser that used it.");
-        throw new VoteError("code_unknown", 404, "This vote code is not one of this competition's codes. Check the letters on your slip.");
+        if (redeemed.kind === "used") throw new VoteError("code_used", 409, "This vote code has already been used in this compo. Each code makes one ballot per compo, changeable only from the browser that used it.");
+        throw new VoteError("code_unknown", 404, "This vote code does not vote in this compo. Check the letters on your slip, and the compos printed on it.");
       }
-      voteCodeId = redeemed.id;
-      holderToken = codeHolderToken(env().BETTER_AUTH_SECRET, redeemed.id, redeemed.redeemedAt!);
+      voteCodeId = redeemed.codeId;
+      holderToken = codeHolderToken(env().BETTER_AUTH_SECRET, redeemed.codeId, c.id, redeemed.redeemedAt);
     }
 
     const where = voterUserId ? eq(ballots.voterUserId, voterUserId) : eq(ballots.voteCodeId, voteCodeId!);
@@ -216,28 +209,15 @@ export async function currentBallot(competitionId: string, voter: Exclude<Voter,
 
 // ---------- organizer side ----------
 
+/** Codes for this compo's own sheet (they vote in this compo only). */
 export async function generateVoteCodes(competitionId: string, n: number): Promise<string[]> {
-  if (!Number.isInteger(n) || n < 1 || n > MAX_CODES_PER_BATCH) throw new RangeError(`between 1 and ${MAX_CODES_PER_BATCH} codes at a time`);
-  const made: string[] = [];
-  while (made.length < n) {
-    const batch = Array.from({ length: n - made.length }, generateCode);
-    const rows = await db()
-      .insert(voteCodes)
-      .values([...new Set(batch)].map((code) => ({ competitionId, code })))
-      .onConflictDoNothing({ target: voteCodes.code })
-      .returning({ code: voteCodes.code });
-    made.push(...rows.map((r) => r.code));
-  }
-  return made;
+  const c = await loadCompetition(competitionId);
+  return issueVoteCodes({ eventId: c.eventId, competitionIds: [c.id], n, partyWide: false });
 }
 
-export async function voteCodesOf(competitionId: string): Promise<{ code: string; createdAt: string; redeemedAt: string | null }[]> {
-  const rows = await db()
-    .select({ code: voteCodes.code, createdAt: voteCodes.createdAt, redeemedAt: voteCodes.redeemedAt })
-    .from(voteCodes)
-    .where(eq(voteCodes.competitionId, competitionId))
-    .orderBy(voteCodes.createdAt, voteCodes.code);
-  return rows.map((r) => ({ code: r.code, createdAt: r.createdAt.toISOString(), redeemedAt: r.redeemedAt?.toISOString() ?? null }));
+/** Every code that votes in this compo, its own and the party-wide ones, with the compos each votes in. */
+export async function voteCodesOf(competitionId: string) {
+  return (await codesOfCompetition(competitionId)).map((l) => ({ ...l, redeemedAt: l.compos.find((x) => x.id === competitionId)?.redeemedAt ?? null }));
 }
 
 /** The audience ballots in the shape the tallies and the recount file take, oldest first. */
@@ -285,7 +265,7 @@ export async function liveCount(competitionId: string, now = new Date()): Promis
     .from(ballotHistory)
     .innerJoin(ballots, eq(ballots.id, ballotHistory.ballotId))
     .where(eq(ballots.competitionId, c.id));
-  const [codes] = await db().select({ issued: count(), redeemed: count(voteCodes.redeemedAt) }).from(voteCodes).where(eq(voteCodes.competitionId, c.id));
+  const codes = await codeCounts(c.id);
   const entriesList = await eligibleEntries(c.id);
   const titles = new Map(entriesList.map((e) => [e.id, e.title]));
   const counted = await ballotsForCount(c.id, c.ballotMethod);

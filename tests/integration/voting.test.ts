@@ -1,7 +1,7 @@
 import { and, count, eq } from "drizzle-orm";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "~/db/client.server";
-import { ballotHistory, ballots, voteCodes } from "~/db/schema";
+import { ballotHistory, ballots, voteCodes, voteCodeScopes } from "~/db/schema";
 import { stopQueue } from "~/jobs/queue.server";
 import * as apiBallots from "~/routes/api.ballots";
 import * as audienceRoute from "~/routes/organize.audience";
@@ -106,7 +106,8 @@ describe("casting a ballot", () => {
     expect(first.setCookie).toContain(codeCookieName(f.competitionId));
     const holder = first.setCookie!.split(";")[0];
     const [row] = await db().select().from(voteCodes).where(eq(voteCodes.code, code));
-    expect(row.redeemedAt).not.toBeNull();
+    const [scope] = await db().select().from(voteCodeScopes).where(eq(voteCodeScopes.voteCodeId, row.id));
+    expect(scope.redeemedAt).not.toBeNull();
 
     const again = await put(f.competitionId, { code, ballot: { ranking: [...ranking].reverse() } });
     expect(again.status).toBe(409);
@@ -132,7 +133,7 @@ describe("casting a ballot", () => {
     // An invalid ballot does not use up a fresh code.
     const [fresh] = await generateVoteCodes(f.competitionId, 1);
     expect((await put(f.competitionId, { code: fresh, ballot: { ranking: [] } })).status).toBe(400);
-    const [freshRow] = await db().select().from(voteCodes).where(eq(voteCodes.code, fresh));
+    const [freshRow] = await db().select({ redeemedAt: voteCodeScopes.redeemedAt }).from(voteCodes).innerJoin(voteCodeScopes, eq(voteCodeScopes.voteCodeId, voteCodes.id)).where(eq(voteCodes.code, fresh));
     expect(freshRow.redeemedAt).toBeNull();
   });
 
@@ -211,13 +212,13 @@ describe("the organizer's audience page", () => {
 
     const csv = (await codesCsv.loader({ request: request("/x", { cookie: f.organizerCookie }), params, context: {} } as never)) as Response;
     const lines = (await csv.text()).trim().split("\r\n");
-    expect(lines[0]).toBe("code,created_at,redeemed_at");
+    expect(lines[0]).toBe("code,party_wide,votes_in,created_at,used_in");
     expect(lines).toHaveLength(13);
     const sheet = (await codesSheet.loader({ request: request("/x", { cookie: f.organizerCookie }), params, context: {} } as never)) as Response;
     const html = await sheet.text();
     expect(sheet.headers.get("content-type")).toContain("text/html");
     expect(html.match(/class="slip"/g)).toHaveLength(12);
-    const [one] = await db().select({ code: voteCodes.code }).from(voteCodes).where(and(eq(voteCodes.competitionId, f.competitionId))).limit(1);
+    const [one] = await db().select({ code: voteCodes.code }).from(voteCodes).innerJoin(voteCodeScopes, eq(voteCodeScopes.voteCodeId, voteCodes.id)).where(and(eq(voteCodeScopes.competitionId, f.competitionId))).limit(1);
     expect(html).toContain(one.code);
   });
 });
