@@ -72,6 +72,15 @@ export default [
   route("organize/:competitionId/results", "routes/organize.results.tsx"),
   route("stage/:competitionId", "routes/stage.tsx"),
   // end showcase block
+  // the party around the compos: public page, timetable, party results; organizer codes, awards, archive (app/party, app/archive)
+  route("e/:eventSlug", "routes/party.tsx"),
+  route("e/:eventSlug/calendar.ics", "routes/party.calendar[.]ics.ts"),
+  route("e/:eventSlug/results.txt", "routes/party.results.ts", { id: "party-results-txt" }),
+  route("e/:eventSlug/results.csv", "routes/party.results.ts", { id: "party-results-csv" }),
+  route("organize/events/:eventId/party", "routes/organize.events.$eventId.party.tsx"),
+  route("organize/events/:eventId/party/codes", "routes/organize.party.codes.ts", { id: "party-codes-sheet" }),
+  route("organize/events/:eventId/party/codes.csv", "routes/organize.party.codes.ts", { id: "party-codes-csv" }),
+  // end party block
   // everything else
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

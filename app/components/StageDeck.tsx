@@ -205,6 +205,16 @@ function Screen({ s, playing, onPlay }: { s: StageScreen; playing: boolean; onPl
           </p>
         </div>
       );
+    case "award":
+      return (
+        <div className="text-center" data-testid="stage-award">
+          <p className="text-3xl font-semibold uppercase tracking-[0.35em] text-[#ff7a3d]">Award</p>
+          <h2 className="mt-6 text-8xl font-extrabold leading-none">{s.award}</h2>
+          <p className="mt-10 text-6xl font-extrabold">{s.title}</p>
+          <p className="mt-4 text-4xl text-white/80">by {s.crew}</p>
+          {s.citation && <p className="mx-auto mt-8 max-w-4xl text-3xl text-white/70">{s.citation}</p>}
+        </div>
+      );
     case "end":
       return (
         <div className="text-center">

@@ -53,9 +53,14 @@ export default function EditEvent({ loaderData }: Route.ComponentProps) {
           <h2 id="comps-h" className="text-xl font-bold">
             Compos
           </h2>
-          <Link to={`/organize/events/${event.id}/competitions/new`} className="btn-primary">
-            New compo
-          </Link>
+          <div className="flex flex-wrap gap-2">
+            <Link to={`/organize/events/${event.id}/party`} className="btn-quiet">
+              Party desk: codes, awards, archive
+            </Link>
+            <Link to={`/organize/events/${event.id}/competitions/new`} className="btn-primary">
+              New compo
+            </Link>
+          </div>
         </div>
         {competitions.length === 0 ? (
           <p className="text-mute">No compos yet.</p>

@@ -2,6 +2,7 @@ import { Link } from "react-router";
 import { PrizeCaution, ShowcaseStandings } from "~/components/ShowcaseStandings";
 import { StateBadge } from "~/components/StateBadge";
 import { requestedVersion, requirePublicCompetition } from "~/results/page.server";
+import { publicAwardsOfCompetition } from "~/results/awards.server";
 import { publishedResults, publishedVersions } from "~/results/results.server";
 import { METHOD_NAMES } from "~/results/format";
 import type { Route } from "./+types/results";
@@ -18,6 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     versions,
     shown: shown ? { version: shown.version, sha256: shown.sha256, note: shown.note, publishedAt: shown.publishedAt, payload: { method: shown.payload.method, counts: shown.payload.counts, standings: shown.payload.standings, rules: shown.payload.rules, criteria: shown.payload.criteria.map((k) => ({ name: k.name, weight: k.weight })) } } : null,
     newest: versions[0]?.version ?? null,
+    awards: shown ? (await publicAwardsOfCompetition(c.eventId, c.id)).map((a) => ({ id: a.id, title: a.title, citation: a.citation, entry: a.winner!.title, crew: a.winner!.crew })) : [],
   };
 }
 
@@ -34,7 +36,7 @@ export const meta: Route.MetaFunction = ({ data: d }) => {
 };
 
 export default function Results({ loaderData }: Route.ComponentProps) {
-  const { competition: c, versions, shown, newest } = loaderData;
+  const { competition: c, versions, shown, newest, awards } = loaderData;
   const base = `/e/${c.eventSlug}/${c.slug}`;
   return (
     <div>
@@ -73,6 +75,22 @@ export default function Results({ loaderData }: Route.ComponentProps) {
           <div className="card mt-6">
             <ShowcaseStandings rows={shown.payload.standings} juryPct={shown.payload.method.juryWeightPct} audiencePct={shown.payload.method.audienceWeightPct} caption="Final standings: each side scaled 0–1, then mixed by the weights. Places in brackets are per side." />
           </div>
+          {awards.length > 0 && (
+            <section className="card mt-6" aria-labelledby="awards-h" data-testid="results-awards">
+              <h2 id="awards-h" className="font-extrabold">Awards</h2>
+              <ul className="mt-2 space-y-2">
+                {awards.map((a) => (
+                  <li key={a.id}>
+                    <span className="font-bold">{a.title}</span>: {a.entry} by {a.crew}
+                    {a.citation && <p className="text-sm text-ink-soft">{a.citation}</p>}
+                  </li>
+                ))}
+              </ul>
+              <p className="mt-2 text-xs text-mute">
+                Every compo and award of the party: <Link to={`/e/${c.eventSlug}`} className="font-semibold text-signal">the party page</Link>.
+              </p>
+            </section>
+          )}
           <div className="mt-6 grid gap-6 lg:grid-cols-2">
             <section className="card">
               <h2 className="font-extrabold">Check it yourself</h2>

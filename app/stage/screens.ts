@@ -19,5 +19,6 @@ export type StageScreen =
   | { kind: "vote"; url: string; qrSvg: string; closesAt: string | null; timeZone: string; method: string }
   | { kind: "reveal-intro"; version: number; entryCount: number }
   | { kind: "reveal"; place: number; tied: boolean; title: string; crew: string; mixed: number; juryScore: number | null; audienceScore: number | null; step: number; steps: number }
+  | { kind: "award"; award: string; citation: string; title: string; crew: string }
   | { kind: "end"; title: string };
 

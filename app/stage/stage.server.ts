@@ -1,5 +1,6 @@
 import QRCode from "qrcode";
 import { env } from "~/env.server";
+import { publicAwardsOfCompetition } from "~/results/awards.server";
 import { publishedResults } from "~/results/results.server";
 import { isFlashFlagged } from "~/showcase/figures";
 import type { StageScreen } from "./screens";
@@ -47,6 +48,8 @@ export async function stageScreens(c: PublicCompetition): Promise<StageScreen[]>
     rows.forEach((r, i) =>
       screens.push({ kind: "reveal", place: r.place, tied: r.tied, title: r.title, crew: r.crew, mixed: r.mixed, juryScore: r.jury.score, audienceScore: r.audience.score, step: i + 1, steps: rows.length }),
     );
+    // The party's special awards won in this compo follow the places.
+    for (const a of await publicAwardsOfCompetition(c.eventId, c.id)) screens.push({ kind: "award", award: a.title, citation: a.citation, title: a.winner!.title, crew: a.winner!.crew });
   }
   screens.push({ kind: "end", title: c.title });
   return screens;
