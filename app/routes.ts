@@ -80,6 +80,9 @@ export default [
   route("organize/events/:eventId/party", "routes/organize.events.$eventId.party.tsx"),
   route("organize/events/:eventId/party/codes", "routes/organize.party.codes.ts", { id: "party-codes-sheet" }),
   route("organize/events/:eventId/party/codes.csv", "routes/organize.party.codes.ts", { id: "party-codes-csv" }),
+  route("organize/events/:eventId/archive.zip", "routes/organize.party.archive.ts"),
+  route("organize/events/:eventId/shuttle", "routes/organize.party.shuttle.tsx"),
+  route("organize/events/:eventId/shuttle.zip", "routes/organize.party.shuttle-zip.ts"),
   // end party block
   // everything else
   route("*", "routes/not-found.tsx"),

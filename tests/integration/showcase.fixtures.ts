@@ -31,17 +31,20 @@ export async function makeCompo(opts: {
   votingClosesAt?: Date | null;
   juryWeightPct?: number;
   stageFlashMode?: "dim" | "skip";
+  /** Another compo of the same party: its event and organizer. */
+  party?: Pick<CompoFixture, "event" | "organizer">;
+  title?: string;
 } = {}): Promise<CompoFixture> {
-  const event = await makeEvent("Fixture Party");
-  const organizer = await makeUser({ name: "Org Anizer" });
-  await grantEventRole(event.id, organizer.id, "organizer");
+  const event = opts.party?.event ?? (await makeEvent("Fixture Party"));
+  const organizer = opts.party?.organizer ?? (await makeUser({ name: "Org Anizer" }));
+  if (!opts.party) await grantEventRole(event.id, organizer.id, "organizer");
   const slug = unique("compo");
   const [c] = await db()
     .insert(competitions)
     .values({
       eventId: event.id,
       slug,
-      title: "Fixture Compo",
+      title: opts.title ?? "Fixture Compo",
       description: "A compo made for a test.",
       state: opts.state ?? "judging",
       ballotMethod: opts.method ?? "points",

@@ -1,0 +1,20 @@
+import { data } from "react-router";
+import { audit } from "~/audit/log.server";
+import { ShuttleError, shuttleExport } from "~/archive/shuttle.server";
+import { zipResponse } from "~/archive/zip-stream.server";
+import { requireOrganizerEvent } from "~/competitions/access.server";
+import type { Route } from "./+types/organize.party.shuttle-zip";
+
+/** The chosen entries' layouts and the shuttle manifest as a zip: …/shuttle.zip?entry=ID&entry=ID. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { user, event } = await requireOrganizerEvent(request, params.eventId);
+  const ids = new URL(request.url).searchParams.getAll("entry");
+  try {
+    const out = await shuttleExport(event.id, ids);
+    await audit({ actorUserId: user.id, eventId: event.id, action: "shuttle.exported", subjectType: "event", subjectId: event.id, details: { entryIds: out.manifest.entries.map((m) => m.entry.id) } });
+    return zipResponse(out.zip, out.filename);
+  } catch (e) {
+    if (e instanceof ShuttleError) throw data({ message: e.message }, { status: 400 });
+    throw e;
+  }
+}
