@@ -173,7 +173,7 @@ describe("the vote page", () => {
     expect(page.data!.entries.map((e) => e.id).sort()).toEqual(f.entries.map((e) => e.id).sort());
     const form = { code: "ZZZZ-ZZZZ", [`points.${f.entries[0].id}`]: "4" };
     const wrong = await callRoute<{ result: { error: Record<string, string[]>; initialValue: Record<string, unknown> } }>(voteRoute.action, request(`/e/${f.event.slug}/${f.slug}/vote`, { form }), params);
-    expect(wrong.data!.result.error.code.join(" ")).toMatch(/not one of this competition's codes/);
+    expect(wrong.data!.result.error.code.join(" ")).toMatch(/does not vote in this compo/);
     expect(JSON.stringify(wrong.data!.result.initialValue)).toContain('"4"');
     const signedIn = await sessionCookie(await makeUser());
     const ok = await callRoute<{ saved: { replaced: boolean } | null }>(voteRoute.action, request(`/e/${f.event.slug}/${f.slug}/vote`, { form: { [`points.${f.entries[0].id}`]: "4", [`points.${f.entries[1].id}`]: "" }, cookie: signedIn }), params);
