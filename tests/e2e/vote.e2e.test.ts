@@ -64,7 +64,7 @@ describe("showcase, audience vote and published results in the browser", () => {
     await p2.goto(`${base}/vote`);
     await p2.getByLabel("Vote code").fill("ZZZZ-ZZZZ");
     await p2.getByRole("button", { name: "Cast my ballot" }).click();
-    await p2.getByText(/not one of this competition's codes/).waitFor();
+    await p2.getByText(/does not vote in this compo/).waitFor();
     await screenshot(p2, "vote-wrong-code");
     await p2.getByLabel("Vote code").fill(code.toLowerCase());
     await p2.getByRole("button", { name: "Cast my ballot" }).click();
