@@ -238,6 +238,8 @@ export function competitionFormSchema(timeZone: string) {
       graceMinutes: int(0, 1440, "Minutes").optional(),
       votingOpens: wallTime,
       votingCloses: wallTime,
+      showStarts: wallTime,
+      showMinutes: int(5, 24 * 60, "Minutes").optional(),
       free: z.boolean().optional(),
       feeAmount: z.number({ error: "An amount, like 15.00." }).min(0, "At least 0.").max(100_000, "At most 100000.").optional(),
       feeCurrency: z.string().trim().optional(),
@@ -248,6 +250,7 @@ export function competitionFormSchema(timeZone: string) {
       checkWallTime(ctx, v.deadline, timeZone, ["deadline"]);
       checkWallTime(ctx, v.votingOpens, timeZone, ["votingOpens"]);
       checkWallTime(ctx, v.votingCloses, timeZone, ["votingCloses"]);
+      checkWallTime(ctx, v.showStarts, timeZone, ["showStarts"]);
       if (v.votingOpens && !v.votingCloses) ctx.addIssue({ code: "custom", path: ["votingCloses"], message: "When does voting close?" });
       if (v.votingCloses && !v.votingOpens) ctx.addIssue({ code: "custom", path: ["votingOpens"], message: "When does voting open?" });
       if (v.votingOpens && v.votingCloses && v.votingCloses <= v.votingOpens) ctx.addIssue({ code: "custom", path: ["votingCloses"], message: "Voting closes after it opens." });
@@ -287,6 +290,8 @@ export interface CompetitionValues {
   graceMinutes: number;
   votingOpensAt: Date | null;
   votingClosesAt: Date | null;
+  showStartsAt: Date | null;
+  showMinutes: number;
   feeAmount: number;
   feeCurrency: string;
   criteria: { id?: string; name: string; weight: number; scaleMin: number; scaleMax: number }[];
@@ -310,6 +315,8 @@ export function competitionValues(v: CompetitionForm, timeZone: string): Competi
     graceMinutes: v.graceMinutes ?? 0,
     votingOpensAt: toUtc(v.votingOpens, timeZone),
     votingClosesAt: toUtc(v.votingCloses, timeZone),
+    showStartsAt: toUtc(v.showStarts, timeZone),
+    showMinutes: v.showMinutes ?? 60,
     feeAmount: v.free ? 0 : Math.round((v.feeAmount ?? 0) * 10 ** currencyDigits(currency)),
     feeCurrency: currency,
     criteria: v.criteria ?? [],
@@ -332,6 +339,8 @@ export function competitionToForm(
     graceMinutes: String(c.graceMinutes),
     votingOpens: wall(c.votingOpensAt),
     votingCloses: wall(c.votingClosesAt),
+    showStarts: wall(c.showStartsAt),
+    showMinutes: String(c.showMinutes),
     free: c.feeAmount === 0 ? "on" : "",
     feeAmount: c.feeAmount === 0 ? "" : (c.feeAmount / 10 ** digits).toFixed(digits),
     feeCurrency: c.feeCurrency.toUpperCase(),

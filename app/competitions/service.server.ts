@@ -108,6 +108,8 @@ function editableColumns(v: CompetitionValues) {
     graceMinutes: v.graceMinutes,
     votingOpensAt: v.votingOpensAt,
     votingClosesAt: v.votingClosesAt,
+    showStartsAt: v.showStartsAt,
+    showMinutes: v.showMinutes,
     feeAmount: v.feeAmount,
     feeCurrency: v.feeCurrency,
     ruleset: v.ruleset,

@@ -20,6 +20,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       graceMinutes: 5,
       votingOpensAt: null,
       votingClosesAt: null,
+      showStartsAt: null,
+      showMinutes: 60,
       feeAmount: 0,
       feeCurrency: "eur",
       ruleset: DEMO_RULESET,

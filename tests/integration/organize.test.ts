@@ -43,6 +43,8 @@ function competitionForm(over: Record<string, string> = {}, drop: string[] = [])
       graceMinutes: 5,
       votingOpensAt: null,
       votingClosesAt: null,
+      showStartsAt: null,
+      showMinutes: 60,
       feeAmount: 1500,
       feeCurrency: "eur",
       ruleset: DEMO_RULESET,

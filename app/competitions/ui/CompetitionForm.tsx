@@ -73,6 +73,8 @@ export function CompetitionForm({
           <Input field={fields.graceMinutes} label="Grace minutes" type="number" hint="Uploads that finish this long after the deadline still count." />
           <Input field={fields.votingOpens} label="Voting opens" type="datetime-local" />
           <Input field={fields.votingCloses} label="Voting closes" type="datetime-local" />
+          <Input field={fields.showStarts} label="Show on the big screen" type="datetime-local" hint="On the party's public timetable and in its calendar." />
+          <Input field={fields.showMinutes} label="Show length (minutes)" type="number" />
         </div>
       </section>
 
