@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { PIN_ROLES, rulesetSchema, TILE_SHAPE, type Ruleset, type RulesetInput } from "~/rules/ruleset";
+import { PIN_ROLES, RULESET_VERSION, rulesetSchema, SHAPE_NAME, type Ruleset, type RulesetInput, type TileShape } from "~/rules/ruleset";
 import { VIDEO_MODES } from "~/rules/video-modes";
 import { isValidTimeZone, utcToZonedWallTime, zonedWallTimeToUtc } from "./timezone";
 
@@ -100,9 +100,10 @@ export const rulesetFormSchema = z.object({
     heightUm: positive(100_000),
     maxTiles: int(1, 16, "Tiles"),
     shapes: z
-      .string({ error: "List the allowed shapes, e.g. 1x1, 2x1." })
-      .refine((s) => splitList(s).length > 0, "List at least one shape, e.g. 1x1.")
-      .refine((s) => splitList(s).every((x) => TILE_SHAPE.test(x)), "Shapes are columns x rows from 1 to 9, e.g. 1x1, 2x1, 1x2."),
+      .string({ error: "List the allowed shapes, e.g. single=1x1, wide=2x1." })
+      .refine((s) => splitList(s).length > 0, "List at least one shape, e.g. single=1x1.")
+      .refine((s) => parseShapes(s) !== null, "Each shape is name=columns x rows (1 to 9), e.g. single=1x1, wide=2x1, tall=1x2; names are lower-case letters, digits and dashes.")
+      .refine((s) => new Set((parseShapes(s) ?? []).map((x) => x.name)).size === (parseShapes(s) ?? []).length, "Two shapes have the same name."),
   }),
   pinLayer: z.object({ layer: int(0, 65535), datatype: int(0, 65535).optional(), edgeToleranceUm: z.number({ error: "A number." }).min(0, "At least 0.").max(1000) }),
   flipFlopPattern: z.string({ error: "A pattern." }).refine(compiles, "This regular expression does not compile."),
@@ -140,6 +141,19 @@ export function splitList(s: string): string[] {
     .map((x) => x.trim())
     .filter(Boolean);
 }
+/** "single=1x1, wide=2x1" → named shapes; null when any item is not name=CxR. */
+export function parseShapes(s: string): TileShape[] | null {
+  const out: TileShape[] = [];
+  for (const item of splitList(s)) {
+    const m = /^([^=\s]+)\s*=\s*([1-9])\s*[x×]\s*([1-9])$/i.exec(item);
+    if (!m || !SHAPE_NAME.test(m[1])) return null;
+    out.push({ name: m[1], cols: Number(m[2]), rows: Number(m[3]) });
+  }
+  return out;
+}
+
+export const shapesText = (shapes: TileShape[]) => shapes.map((x) => `${x.name}=${x.cols}x${x.rows}`).join(", ");
+
 export function splitLines(s: string): string[] {
   return s
     .split(/\r?\n/)
@@ -149,14 +163,14 @@ export function splitLines(s: string): string[] {
 
 export function rulesetFromForm(f: RulesetForm): RulesetInput {
   return {
-    version: 1,
+    version: RULESET_VERSION,
     topModule: f.topModule,
     pins: f.pins,
     resetActive: f.resetActive,
     clock: f.clock,
     videoMode: f.videoMode,
     colourBitsPerChannel: f.colourBitsPerChannel,
-    tile: { widthUm: f.tile.widthUm, heightUm: f.tile.heightUm, maxTiles: f.tile.maxTiles, allowedShapes: splitList(f.tile.shapes) },
+    tile: { widthUm: f.tile.widthUm, heightUm: f.tile.heightUm, maxTiles: f.tile.maxTiles, allowedShapes: parseShapes(f.tile.shapes) ?? [] },
     pinLayer: { layer: f.pinLayer.layer, datatype: f.pinLayer.datatype ?? null, edgeToleranceUm: f.pinLayer.edgeToleranceUm },
     flipFlopPattern: f.flipFlopPattern,
     flipFlopBudget: f.flipFlopBudget ?? null,
@@ -188,7 +202,7 @@ export function rulesetToForm(r: Ruleset) {
     clock: { frequencyHz: String(r.clock.frequencyHz), tolerancePct: String(r.clock.tolerancePct) },
     videoMode: r.videoMode,
     colourBitsPerChannel: String(r.colourBitsPerChannel),
-    tile: { widthUm: String(r.tile.widthUm), heightUm: String(r.tile.heightUm), maxTiles: String(r.tile.maxTiles), shapes: r.tile.allowedShapes.join(", ") },
+    tile: { widthUm: String(r.tile.widthUm), heightUm: String(r.tile.heightUm), maxTiles: String(r.tile.maxTiles), shapes: shapesText(r.tile.allowedShapes) },
     pinLayer: { layer: String(r.pinLayer.layer), datatype: r.pinLayer.datatype == null ? "" : String(r.pinLayer.datatype), edgeToleranceUm: String(r.pinLayer.edgeToleranceUm) },
     flipFlopPattern: r.flipFlopPattern,
     flipFlopBudget: r.flipFlopBudget == null ? "" : String(r.flipFlopBudget),

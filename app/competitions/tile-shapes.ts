@@ -1,3 +1,5 @@
+import type { TileShape } from "~/rules/ruleset";
+
 /** Geometry of a ruleset's allowed tile shapes, for the to-scale drawing on the rules page. */
 export interface ShapeBox {
   shape: string;
@@ -9,9 +11,8 @@ export interface ShapeBox {
   withinLimit: boolean;
 }
 
-export function shapeBoxes(tile: { widthUm: number; heightUm: number; maxTiles: number; allowedShapes: string[] }): ShapeBox[] {
-  return tile.allowedShapes.map((shape) => {
-    const [cols, rows] = shape.split("x").map(Number);
+export function shapeBoxes(tile: { widthUm: number; heightUm: number; maxTiles: number; allowedShapes: TileShape[] }): ShapeBox[] {
+  return tile.allowedShapes.map(({ name: shape, cols, rows }) => {
     const widthUm = cols * tile.widthUm;
     const heightUm = rows * tile.heightUm;
     return { shape, cols, rows, widthUm, heightUm, areaMm2: (widthUm * heightUm) / 1e6, withinLimit: cols * rows <= tile.maxTiles };

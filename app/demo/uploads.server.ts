@@ -25,7 +25,7 @@ function zipOf(name: string, contents: Buffer): Promise<Buffer> {
 }
 
 /** Demo layouts: mostly single tiles; one crew took two tiles side by side. */
-const LAYOUT_SHAPES: Record<string, string> = { "copper-sine": "2x1" };
+const LAYOUT_SHAPES: Record<string, string> = { "copper-sine": "wide" };
 
 /**
  * Gives every demo entry real files — its Verilog packed as a .zip and a GDSII layout generated for it —
@@ -40,7 +40,7 @@ export async function seedDemoUploads(db: Db, entryIds: string[], now = new Date
     const completedAt = design.competition === "judging" ? new Date(now.getTime() - 3 * DAY + i * 3600_000) : new Date(now.getTime() - i * 3600_000);
     const bundle = await zipOf(`${design.slug}.v`, readFileSync(designPath(design.slug)));
     const layout = Buffer.from(
-      generateDemoLayout({ ruleset: DEMO_RULESET, shape: LAYOUT_SHAPES[design.slug] ?? "1x1", flipFlops: 40 + 10 * i, logicCells: 300 + 40 * i, seed: i + 1, libName: design.slug }).bytes,
+      generateDemoLayout({ ruleset: DEMO_RULESET, shape: LAYOUT_SHAPES[design.slug] ?? "single", flipFlops: 40 + 10 * i, logicCells: 300 + 40 * i, seed: i + 1, libName: design.slug }).bytes,
     );
     const [upload] = await db.insert(uploads).values({ entryId: entry.id, number: 1, state: "complete", createdAt: completedAt, completedAt }).returning();
     for (const [kind, bytes, filename, mediaType] of [

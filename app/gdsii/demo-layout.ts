@@ -1,4 +1,4 @@
-import { DEMO_RULESET, TILE_SHAPE, type Ruleset } from "~/rules/ruleset";
+import { DEMO_RULESET, type Ruleset } from "~/rules/ruleset";
 import { DIE_OUTLINE_LAYER } from "./conventions";
 import { writeLayout, type GdsElement, type GdsLibrary, type GdsStructure } from "./writer";
 
@@ -29,7 +29,7 @@ export interface DemoLayoutBreaks {
 
 export interface DemoLayoutOptions {
   ruleset?: Ruleset;
-  /** Columns x rows of tiles, e.g. "1x1" or "2x1". */
+  /** The name of one of the ruleset's tile shapes, e.g. "single" or "wide" (default: its first). */
   shape?: string;
   flipFlops?: number;
   logicCells?: number;
@@ -87,10 +87,11 @@ const WIRE_LAYER = 11;
 
 export function generateDemoLayout(opts: DemoLayoutOptions = {}): DemoLayout {
   const ruleset = opts.ruleset ?? DEMO_RULESET;
-  const shape = opts.shape ?? ruleset.tile.allowedShapes[0];
-  if (!TILE_SHAPE.test(shape)) throw new DemoLayoutError(`shape "${shape}" is not columns x rows, e.g. "1x2"`);
+  const name = opts.shape ?? ruleset.tile.allowedShapes[0].name;
+  const shape = ruleset.tile.allowedShapes.find((s) => s.name === name);
+  if (!shape) throw new DemoLayoutError(`shape "${name}" is not one of the ruleset's: ${ruleset.tile.allowedShapes.map((s) => s.name).join(", ")}`);
   const broken = opts.break ?? {};
-  let [cols, rows] = shape.split("x").map(Number);
+  let { cols, rows } = shape;
   if (broken.tooBig) cols = ruleset.tile.maxTiles + 1;
   const dieW = Math.round(cols * ruleset.tile.widthUm * NM_PER_UM);
   const dieH = Math.round(rows * ruleset.tile.heightUm * NM_PER_UM);

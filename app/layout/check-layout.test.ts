@@ -15,9 +15,9 @@ describe("checkLayout", () => {
     const r = check({});
     expect(worstVerdict(r.findings)).toBe("pass");
     expect(r.findings.every((f) => f.step === "layout")).toBe(true);
-    expect(r.figures.matchedShape).toBe("1x1");
+    expect(r.figures.matchedShape).toBe("single");
     expect(r.figures.dieSource).toBe("outline");
-    expect(r.figures.dieUm).toEqual([0, 0, 160, 100]); // DEMO_RULESET tile 160 × 100 µm
+    expect(r.figures.dieUm).toEqual([0, 0, 180, 120]); // DEMO_RULESET tile 180 × 120 µm
     expect(r.figures.flipFlops).toBe(140);
     // 70 gc_dff (6.4 × 2.8 µm) + 70 gc_dffr (7.2 × 2.8 µm) are part of the placed area, computed by hand.
     expect(r.figures.placedCellAreaUm2).toBeGreaterThan(70 * 6.4 * 2.8 + 70 * 7.2 * 2.8);
@@ -27,9 +27,9 @@ describe("checkLayout", () => {
     expect(r.figures.pinsLabelled).toHaveLength(11);
   });
 
-  it("matches the 2x1 shape for a two-tile die", () => {
-    const r = check({ shape: "2x1" });
-    expect(r.figures.matchedShape).toBe("2x1");
+  it("matches the wide (2 × 1 tiles) shape for a two-tile die", () => {
+    const r = check({ shape: "wide" });
+    expect(r.figures.matchedShape).toBe("wide");
     expect(verdictOf(r, "layout.die.size")).toBe("pass");
   });
 
@@ -37,7 +37,7 @@ describe("checkLayout", () => {
     const r = check({ break: { tooBig: true } });
     expect(verdictOf(r, "layout.die.size")).toBe("fail");
     expect(r.figures.matchedShape).toBeNull();
-    expect(r.findings.find((f) => f.rule === "layout.die.size")?.measured).toBe("480 × 100 µm"); // 3 tiles × 160 µm
+    expect(r.findings.find((f) => f.rule === "layout.die.size")?.measured).toBe("540 × 120 µm"); // 3 tiles × 180 µm
   });
 
   it("fails a missing pin label and names it", () => {
@@ -74,10 +74,10 @@ describe("checkLayout", () => {
         {
           name: "gc_entry",
           elements: [
-            { kind: "boundary", layer: 1, datatype: 0, points: [0, 0, 160000, 0, 160000, 100000, 0, 100000] },
-            ...["clk", "rst_n", "vga_r", "vga_g", "vga_b", "vga_hs", "vga_vs", "pwm_out"].map((t, i) => ({ kind: "text" as const, layer: 70, texttype: 0, x: 10000 * (i + 1), y: 0, text: t })),
-            { kind: "text", layer: 70, texttype: 0, x: 50000, y: 50000, text: "clk" },
-            { kind: "text", layer: 70, texttype: 0, x: 0, y: 20000, text: "debug" },
+            { kind: "boundary", layer: 1, datatype: 0, points: [0, 0, 180000, 0, 180000, 120000, 0, 120000] },
+            ...["clk", "rst_n", "vga_r", "vga_g", "vga_b", "vga_hs", "vga_vs", "pwm_out"].map((t, i) => ({ kind: "text" as const, layer: DEMO_RULESET.pinLayer.layer, texttype: 0, x: 10000 * (i + 1), y: 0, text: t })),
+            { kind: "text", layer: DEMO_RULESET.pinLayer.layer, texttype: 0, x: 50000, y: 60000, text: "clk" },
+            { kind: "text", layer: DEMO_RULESET.pinLayer.layer, texttype: 0, x: 0, y: 20000, text: "debug" },
           ],
         },
       ],
@@ -92,7 +92,7 @@ describe("checkLayout", () => {
       libName: "P",
       userUnitsPerDbUnit: 0.001,
       metersPerDbUnit: 1e-9,
-      structures: [{ name: "gc_entry", elements: [{ kind: "boundary", layer: 200, datatype: 0, points: [0, 0, 160000, 0, 160000, 100000, 0, 100000] }, { kind: "text", layer: 70, texttype: 0, x: 80000, y: 1500, text: "clk" }] }],
+      structures: [{ name: "gc_entry", elements: [{ kind: "boundary", layer: 200, datatype: 0, points: [0, 0, 180000, 0, 180000, 120000, 0, 120000] }, { kind: "text", layer: DEMO_RULESET.pinLayer.layer, texttype: 0, x: 90000, y: 1500, text: "clk" }] }],
     });
     const r2 = checkLayout(readLayout(moved), DEMO_RULESET);
     expect(verdictOf(r2, "layout.pins.edge")).toBe("fail"); // 1.5 µm from the edge, tolerance 1 µm

@@ -83,10 +83,7 @@ export function checkLayout(summary: LayoutSummary, ruleset: Ruleset): { finding
   const widthUm = extent[2] - extent[0];
   const heightUm = extent[3] - extent[1];
   const shapes = tile.allowedShapes
-    .map((s) => {
-      const [c, r] = s.split("x").map(Number);
-      return { name: s, cols: c, rows: r, w: c * tile.widthUm, h: r * tile.heightUm };
-    })
+    .map((s) => ({ name: s.name, cols: s.cols, rows: s.rows, w: s.cols * tile.widthUm, h: s.rows * tile.heightUm }))
     .filter((s) => s.cols * s.rows <= tile.maxTiles)
     .sort((a, b) => a.w * a.h - b.w * b.h);
   const matched = shapes.find((s) => widthUm <= s.w + SLACK_UM && heightUm <= s.h + SLACK_UM) ?? null;

@@ -14,7 +14,7 @@ const die = demo.facts.dieUm;
 describe("layout pictures", () => {
   it("draws an SVG in µm with y up, cells by kind, pins and a legend", () => {
     const svg = layoutPictureSvg(summary, DEMO_RULESET, { dieUm: die });
-    expect(svg).toMatch(/^<svg xmlns="http:\/\/www.w3.org\/2000\/svg" viewBox="-9.6 -109.6 /);
+    expect(svg).toMatch(/^<svg xmlns="http:\/\/www.w3.org\/2000\/svg" viewBox="-10.8 -130.8 /); // 180 × 120 µm die, 6 % of the longer side as margin
     expect(svg).toContain('transform="scale(1,-1)"');
     for (const kind of ["flipflop", "logic", "fill", "forbidden"]) expect(svg).toContain(`data-kind="${kind}"`);
     for (const label of demo.facts.labels) expect(svg).toContain(`>${label.replace("[", "[")}</text>`);

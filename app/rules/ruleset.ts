@@ -4,8 +4,10 @@ import { z } from "zod";
  * The ruleset of a competition: what an entry must obey to go on the shared chip.
  * Stored as JSON with a version. Only `topModule` and `pins` are required; every other
  * field falls back to the demo compo's values (DEMO_RULESET_DEFAULTS).
+ * Version 2 names the tile shapes ({name, cols, rows}); a version 1 ruleset (shapes written "CxR") is
+ * upgraded when it is read (upgradeRuleset), so stored rulesets stay valid.
  */
-export const RULESET_VERSION = 1;
+export const RULESET_VERSION = 2;
 
 export const PIN_ROLES = ["clock", "reset", "red", "green", "blue", "hsync", "vsync", "audio", "unused"] as const;
 export type PinRole = (typeof PIN_ROLES)[number];
@@ -18,7 +20,53 @@ export const pinSchema = z.object({
 });
 export type Pin = z.infer<typeof pinSchema>;
 
-export const TILE_SHAPE = /^[1-9]x[1-9]$/; // columns x rows of tiles, e.g. "1x2"
+/** A tile shape: a name of the organizer's choosing and its size in tiles (columns across, rows up). */
+export const SHAPE_NAME = /^[a-z][a-z0-9-]{0,23}$/;
+export const tileShapeSchema = z.object({
+  name: z.string().regex(SHAPE_NAME, "a short name: lower-case letters, digits and dashes, e.g. wide"),
+  cols: z.number().int().min(1).max(9),
+  rows: z.number().int().min(1).max(9),
+});
+export type TileShape = z.infer<typeof tileShapeSchema>;
+
+/**
+ * The default tile and pin-label layer are Gatecrash's own invention, not any shuttle programme's: a tile of
+ * 180 × 120 µm (0.0216 mm², inside the 0.02–0.04 mm² a design of a few thousand gates needs), at most two
+ * tiles as "single", "wide" (two across) or "tall" (two up), and pin labels on GDSII layer 201. An organizer
+ * sets their own shuttle's values on the compo form or by importing a ruleset (public/rulesets/).
+ */
+export const DEFAULT_TILE_SHAPES: TileShape[] = [
+  { name: "single", cols: 1, rows: 1 },
+  { name: "wide", cols: 2, rows: 1 },
+  { name: "tall", cols: 1, rows: 2 },
+];
+export const DEFAULT_TILE = { widthUm: 180, heightUm: 120, maxTiles: 2, allowedShapes: DEFAULT_TILE_SHAPES };
+export const DEFAULT_PIN_LAYER = { layer: 201, datatype: null, edgeToleranceUm: 1 };
+
+/** A Gatecrash name for a version 1 shape "CxR" (columns x rows). */
+export function legacyShapeName(cols: number, rows: number): string {
+  const known = DEFAULT_TILE_SHAPES.find((s) => s.cols === cols && s.rows === rows);
+  if (known) return known.name;
+  if (rows === 1) return `wide-${cols}`;
+  if (cols === 1) return `tall-${rows}`;
+  return `block-${cols}-by-${rows}`;
+}
+
+/** Version 1 → 2: tile shapes written "CxR" become named shapes; anything else passes through to the schema. */
+export function upgradeRuleset(input: unknown): unknown {
+  if (!input || typeof input !== "object" || Array.isArray(input)) return input;
+  const r = input as Record<string, unknown>;
+  if (r.version !== undefined && r.version !== 1) return input;
+  const tile = r.tile as Record<string, unknown> | undefined;
+  const shapes = tile?.allowedShapes;
+  const upgraded = Array.isArray(shapes)
+    ? shapes.map((s) => {
+        const m = typeof s === "string" ? /^([1-9])x([1-9])$/.exec(s) : null;
+        return m ? { name: legacyShapeName(Number(m[1]), Number(m[2])), cols: Number(m[1]), rows: Number(m[2]) } : s;
+      })
+    : shapes;
+  return { ...r, version: RULESET_VERSION, ...(tile ? { tile: { ...tile, allowedShapes: upgraded } } : {}) };
+}
 
 const uploadLimitsSchema = z.object({
   bundleBytes: z.number().int().positive().default(8 * 1024 * 1024),
@@ -40,7 +88,7 @@ const simulationSchema = z.object({
   memoryMb: z.number().int().min(256).max(16384).default(2048),
 });
 
-export const rulesetSchema = z.object({
+const rulesetObject = z.object({
   version: z.literal(RULESET_VERSION).default(RULESET_VERSION),
   topModule: z.string().regex(/^[A-Za-z_][A-Za-z0-9_$]*$/, "a Verilog module name"),
   pins: z.array(pinSchema).min(1),
@@ -52,19 +100,23 @@ export const rulesetSchema = z.object({
   colourBitsPerChannel: z.number().int().min(1).max(8).default(2),
   tile: z
     .object({
-      widthUm: z.number().positive().default(160),
-      heightUm: z.number().positive().default(100),
-      maxTiles: z.number().int().min(1).max(16).default(2),
-      allowedShapes: z.array(z.string().regex(TILE_SHAPE, "columns x rows, e.g. 1x2")).min(1).default(["1x1", "2x1", "1x2"]),
+      widthUm: z.number().positive().default(DEFAULT_TILE.widthUm),
+      heightUm: z.number().positive().default(DEFAULT_TILE.heightUm),
+      maxTiles: z.number().int().min(1).max(16).default(DEFAULT_TILE.maxTiles),
+      allowedShapes: z
+        .array(tileShapeSchema)
+        .min(1)
+        .default(DEFAULT_TILE_SHAPES)
+        .refine((l) => new Set(l.map((s) => s.name)).size === l.length, "every shape needs its own name"),
     })
-    .default({ widthUm: 160, heightUm: 100, maxTiles: 2, allowedShapes: ["1x1", "2x1", "1x2"] }),
+    .default(DEFAULT_TILE),
   pinLayer: z
     .object({
-      layer: z.number().int().min(0).max(65535).default(70),
-      datatype: z.number().int().min(0).max(65535).nullable().default(null),
-      edgeToleranceUm: z.number().min(0).default(1),
+      layer: z.number().int().min(0).max(65535).default(DEFAULT_PIN_LAYER.layer),
+      datatype: z.number().int().min(0).max(65535).nullable().default(DEFAULT_PIN_LAYER.datatype),
+      edgeToleranceUm: z.number().min(0).default(DEFAULT_PIN_LAYER.edgeToleranceUm),
     })
-    .default({ layer: 70, datatype: null, edgeToleranceUm: 1 }),
+    .default(DEFAULT_PIN_LAYER),
   flipFlopPattern: z.string().default("(?:^|_)(?:df|dff|sdff|edff)"),
   flipFlopBudget: z.number().int().positive().nullable().default(null),
   forbiddenCellPatterns: z.array(z.string()).default(["sram", "ram\\d", "rom\\d", "macro_mem"]),
@@ -75,8 +127,11 @@ export const rulesetSchema = z.object({
     .default({ enabled: true, action: "warn" }),
 });
 
-export type Ruleset = z.infer<typeof rulesetSchema>;
-export type RulesetInput = z.input<typeof rulesetSchema>;
+/** The stored ruleset; older versions are upgraded on the way in. */
+export const rulesetSchema = z.preprocess(upgradeRuleset, rulesetObject);
+
+export type Ruleset = z.infer<typeof rulesetObject>;
+export type RulesetInput = z.input<typeof rulesetObject>;
 
 /** The demo compo's pin list: Gatecrash's own invention, not any shuttle's pin map. */
 export const DEMO_PINS: Pin[] = [

@@ -15,7 +15,7 @@ describe("public figures of a check run", () => {
   });
 
   it("reads stats defensively", () => {
-    expect(publicStats({ source: { cells: "many" }, layout: { widthUm: 160 } })).toEqual({ flipFlops: null, cells: null, sourceLines: null, tileShape: null, tileSizeUm: null, utilization: null });
-    expect(publicStats({ layout: { flipFlops: 138, widthUm: 160, heightUm: 100, matchedShape: "2x1", utilization: 0.5 } })).toMatchObject({ flipFlops: 138, tileShape: "2x1", tileSizeUm: { width: 160, height: 100 } });
+    expect(publicStats({ source: { cells: "many" }, layout: { widthUm: 180 } })).toEqual({ flipFlops: null, cells: null, sourceLines: null, tileShape: null, tileSizeUm: null, utilization: null });
+    expect(publicStats({ layout: { flipFlops: 138, widthUm: 360, heightUm: 120, matchedShape: "wide", utilization: 0.5 } })).toMatchObject({ flipFlops: 138, tileShape: "wide", tileSizeUm: { width: 360, height: 120 } });
   });
 });

@@ -66,7 +66,7 @@ export async function hostileBundles(dir: string): Promise<HostileBundle[]> {
 
 /** `count` mutations of a valid demo layout: flipped bytes, truncations, inserted junk, corrupted record lengths. */
 export function mutatedLayouts(count: number, seed = 2027): { seed: number; how: string; bytes: Buffer }[] {
-  const base = Buffer.from(generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 20, logicCells: 120, seed: 11 }).bytes);
+  const base = Buffer.from(generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 20, logicCells: 120, seed: 11 }).bytes);
   const out: { seed: number; how: string; bytes: Buffer }[] = [];
   for (let i = 0; i < count; i++) {
     const s = seed + i;

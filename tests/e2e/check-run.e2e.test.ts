@@ -19,7 +19,7 @@ describe("the live check report on the entry page", () => {
     const { entry } = await makeCompetitionWithEntry({ eventId: event.id, captainId: captain.id, state: "open" });
     const upload = await makeCompleteUpload(entry.id, 1, [
       { kind: "bundle", bytes: await zipOf({ "copper.v": readFileSync(designPath("copper-sine")) }), filename: "copper.zip", mediaType: "application/zip" },
-      { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "2x1", flipFlops: 120, logicCells: 500, seed: 9 }).bytes, filename: "copper.gds", mediaType: "application/vnd.gdsii" },
+      { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "wide", flipFlops: 120, logicCells: 500, seed: 9 }).bytes, filename: "copper.gds", mediaType: "application/vnd.gdsii" },
     ]);
     await queueCheckRun(upload.id);
 

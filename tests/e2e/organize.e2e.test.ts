@@ -65,7 +65,7 @@ describe("the organizer in the browser", () => {
     await expect(pinRows.count()).resolves.toBe(9);
     await page.getByRole("button", { name: "Remove pin 9" }).click();
     await page.getByLabel("Pin 9 name").waitFor({ state: "detached" });
-    await page.getByLabel("Allowed shapes").fill("1x1, 2x1");
+    await page.getByLabel("Allowed shapes").fill("single=1x1, pair=2x1");
     await page.getByLabel("Flip-flop budget").fill("160");
     await screenshot(page, "organize-competition-form");
     await page.getByRole("button", { name: "Create compo" }).click();
@@ -82,7 +82,7 @@ describe("the organizer in the browser", () => {
     await expect(page.getByTestId("pin-table").locator("tbody tr").count()).resolves.toBe(8);
     await expect(page.getByText("beam_top").first().isVisible()).resolves.toBe(true);
     await expect(page.getByTestId("fee").textContent()).resolves.toBe("€12.50");
-    await expect(page.getByTestId("tile-shapes").getAttribute("aria-label")).resolves.toContain("2x1 is 320 by 100 µm, 0.0320 mm²");
+    await expect(page.getByTestId("tile-shapes").getAttribute("aria-label")).resolves.toContain("pair is 360 by 120 µm, 0.0432 mm²");
     await page.getByTestId("visitor-time").first().waitFor(); // filled in after hydration, on the visitor's clock
     await expect(page.getByRole("link", { name: "Enter this compo" }).count()).resolves.toBe(1);
     await screenshot(page, "rules-page");

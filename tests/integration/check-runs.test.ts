@@ -25,7 +25,7 @@ async function prepare() {
   const stranger = await makeUser();
   const made = await makeCompetitionWithEntry({ eventId: event.id, captainId: captain.id, state: "open" });
   const bundle = await zipOf({ "xor.v": readFileSync(designPath("xor-tide")) });
-  const layout = generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 30, logicCells: 200, seed: 3 }).bytes;
+  const layout = generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 30, logicCells: 200, seed: 3 }).bytes;
   const upload = await makeCompleteUpload(made.entry.id, 1, [
     { kind: "bundle", bytes: bundle, filename: "xor.zip", mediaType: "application/zip" },
     { kind: "layout", bytes: layout, filename: "xor.gds", mediaType: "application/vnd.gdsii" },

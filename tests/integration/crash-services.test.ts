@@ -97,7 +97,7 @@ describe("a worker killed in the middle of a check run", () => {
     const made = await makeCompetitionWithEntry({ eventId: event.id, captainId: captain.id, state: "open" });
     const upload = await makeCompleteUpload(made.entry.id, 1, [
       { kind: "bundle", bytes: await zipOf("xor.v", readFileSync(designPath("xor-tide"))), filename: "xor.zip", mediaType: "application/zip" },
-      { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 30, logicCells: 200, seed: 3 }).bytes, filename: "xor.gds", mediaType: "application/vnd.gdsii" },
+      { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 30, logicCells: 200, seed: 3 }).bytes, filename: "xor.gds", mediaType: "application/vnd.gdsii" },
     ]);
     const runId = await mod.queue.queueCheckRun(upload.id);
     const runRow = async () => (await db().select().from(checkRuns).where(eq(checkRuns.id, runId)))[0];
@@ -172,7 +172,7 @@ describe("the object store is down during an upload", () => {
     const bytes = await zipOf("xor.v", readFileSync(designPath("xor-tide")));
     const { generateDemoLayout } = await import("~/gdsii/demo-layout");
     const { DEMO_RULESET } = await import("~/rules/ruleset");
-    const gds = Buffer.from(generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 30, logicCells: 200, seed: 5 }).bytes);
+    const gds = Buffer.from(generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 30, logicCells: 200, seed: 5 }).bytes);
     const started = await post(`/api/entries/${s.entry.id}/uploads`, {
       files: [
         { kind: "bundle", filename: "xor.zip", size: bytes.length },

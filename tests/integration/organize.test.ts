@@ -116,7 +116,7 @@ describe("competitions: create and edit", () => {
       "criteria[1].scaleMax": "-3",
       "ruleset.flipFlopPattern": "(dff",
       "ruleset.forbiddenCellPatterns": "sram\n[unclosed",
-      "ruleset.tile.shapes": "1x1, three-by-one",
+      "ruleset.tile.shapes": "single=1x1, three-by-one",
       feeCurrency: "XYZ",
     });
     const out = await callRoute<Reply>(newCompetition.action, request(`/organize/events/${event.id}/competitions/new`, { cookie, form }), { eventId: event.id });
@@ -168,7 +168,7 @@ describe("competitions: create and edit", () => {
 describe("ruleset import and export", () => {
   it("exports as a download and imports it back unchanged into another compo", async () => {
     const { cookie, event } = await organizerWithEvent();
-    const a = await createCompetition(cookie, event.id, { "ruleset.topModule": "beam_top", "ruleset.flipFlopBudget": "180", "ruleset.tile.shapes": "1x1, 2x1" });
+    const a = await createCompetition(cookie, event.id, { "ruleset.topModule": "beam_top", "ruleset.flipFlopBudget": "180", "ruleset.tile.shapes": "single=1x1, pair=2x1" });
     const b = await createCompetition(cookie, event.id);
     const res = (await rulesetJsonRoute.loader({ request: request(`/organize/${a}/ruleset.json`, { cookie }), params: { competitionId: a }, context: {} } as never)) as Response;
     expect(res.headers.get("content-disposition")).toMatch(/attachment; filename=".*ruleset-v1\.json"/);

@@ -39,7 +39,7 @@ describe("the public showcase", () => {
     for (const e of f.entries) expect(json).not.toContain(e.crew);
     // Figures and the flash result come from the check run.
     const checked = out.data!.entries.find((e) => e.id === f.entries[0].id)!;
-    expect(checked.stats).toMatchObject({ flipFlops: 140, cells: 2100, sourceLines: 321, tileShape: "1x1", utilization: 0.62 });
+    expect(checked.stats).toMatchObject({ flipFlops: 140, cells: 2100, sourceLines: 321, tileShape: "single", utilization: 0.62 });
     expect(checked.flash.verdict).toBe("pass");
     expect(checked.referenceReady).toBe(true);
     expect(checked.media.referenceWebm).toMatch(/^\/artifacts\/[0-9a-f-]{36}$/);

@@ -201,7 +201,7 @@ export function CompetitionForm({
           <Input field={tile.widthUm} label="Tile width (µm)" type="number" step="any" />
           <Input field={tile.heightUm} label="Tile height (µm)" type="number" step="any" />
           <Input field={tile.maxTiles} label="Most tiles per entry" type="number" />
-          <Input field={tile.shapes} label="Allowed shapes" hint="columns x rows, e.g. 1x1, 2x1, 1x2" />
+          <Input field={tile.shapes} label="Allowed shapes" hint="name=columns x rows, e.g. single=1x1, wide=2x1, tall=1x2 (names are yours). An example ruleset for your own shuttle: /rulesets/example-own-shuttle.json" />
           <Input field={pinLayer.layer} label="Pin label layer" type="number" />
           <Input field={pinLayer.datatype} label="Pin label datatype" type="number" hint="Empty: any datatype." />
           <Input field={pinLayer.edgeToleranceUm} label="Pin edge tolerance (µm)" type="number" step="any" />

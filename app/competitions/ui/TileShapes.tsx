@@ -1,7 +1,8 @@
+import type { TileShape } from "~/rules/ruleset";
 import { drawingScale, fmtArea, shapeBoxes } from "../tile-shapes";
 
 /** The allowed tile shapes, drawn to one scale: tile grid dashed, outline solid, size and area under each. */
-export function TileShapes({ tile }: { tile: { widthUm: number; heightUm: number; maxTiles: number; allowedShapes: string[] } }) {
+export function TileShapes({ tile }: { tile: { widthUm: number; heightUm: number; maxTiles: number; allowedShapes: TileShape[] } }) {
   const boxes = shapeBoxes(tile);
   const { pxPerUm, barUm } = drawingScale(boxes);
   const gap = 40;
