@@ -1,10 +1,11 @@
 import { eq } from "drizzle-orm";
 import { auth } from "~/auth/auth.server";
 import type { Db } from "~/db/client.server";
-import { account, competitions, crewMembers, crews, criteria, entries, eventRoles, events, juryAssignments, user } from "~/db/schema";
+import { account, awards, competitions, crewMembers, crews, criteria, entries, eventRoles, events, juryAssignments, user, voteCodes, voteCodeScopes } from "~/db/schema";
+import { generateCode } from "~/voting/codes";
 import { DEMO_RULESET } from "~/rules/ruleset";
 import { DEMO_DESIGNS } from "../../demo/designs/index";
-import { DEMO_COMPETITIONS, DEMO_CRITERIA, DEMO_EVENT, DEMO_PASSWORD, DEMO_PEOPLE } from "./scenario";
+import { DEMO_AWARDS, DEMO_COMPETITIONS, DEMO_CRITERIA, DEMO_EVENT, DEMO_PARTY_CODES, DEMO_PASSWORD, DEMO_PEOPLE } from "./scenario";
 
 const DAY = 24 * 3600 * 1000;
 
@@ -49,6 +50,8 @@ export async function seedDemo(db: Db, now = new Date()): Promise<{ seeded: bool
           deadlineAt: deadline,
           votingOpensAt: key === "judging" ? new Date(now.getTime() - DAY) : new Date(deadline.getTime() + 2 * DAY),
           votingClosesAt: key === "judging" ? new Date(now.getTime() + 5 * DAY) : new Date(deadline.getTime() + 3 * DAY),
+          showStartsAt: new Date(now.getTime() + c.showInDays * DAY),
+          showMinutes: key === "judging" ? 45 : 90,
           feeAmount: c.feeAmount,
           feeCurrency: c.feeCurrency,
           ruleset: DEMO_RULESET,
@@ -60,7 +63,14 @@ export async function seedDemo(db: Db, now = new Date()): Promise<{ seeded: bool
       await tx.insert(criteria).values(DEMO_CRITERIA.map((cr, i) => ({ ...cr, competitionId: row.id, position: i })));
       await tx.insert(juryAssignments).values(["judge1", "judge2", "judge3"].map((k) => ({ competitionId: row.id, judgeUserId: ids[k] })));
     }
+    // One shared vote-code sheet for the whole party: every slip votes once in each compo.
+    const codes = await tx
+      .insert(voteCodes)
+      .values([...new Set(Array.from({ length: DEMO_PARTY_CODES }, generateCode))].map((code) => ({ eventId: event.id, code, partyWide: true })))
+      .returning({ id: voteCodes.id });
+    await tx.insert(voteCodeScopes).values(codes.flatMap((v) => Object.values(compIds).map((competitionId) => ({ voteCodeId: v.id, competitionId }))));
     const entryIds: string[] = [];
+    const entryBySlug: Record<string, string> = {};
     for (const [i, d] of DEMO_DESIGNS.entries()) {
       const captain = ids[`entrant${i + 1}`];
       const [crew] = await tx
@@ -80,7 +90,11 @@ export async function seedDemo(db: Db, now = new Date()): Promise<{ seeded: bool
         })
         .returning();
       entryIds.push(entry.id);
+      entryBySlug[d.slug] = entry.id;
     }
+    await tx.insert(awards).values(
+      DEMO_AWARDS.map((a, position) => ({ eventId: event.id, title: a.title, citation: a.citation, winnerEntryId: a.winnerSlug ? entryBySlug[a.winnerSlug] : null, position })),
+    );
     return { seeded: true, entryIds };
   });
 }

@@ -9,7 +9,7 @@ import { and, eq } from "drizzle-orm";
 import yauzl from "yauzl";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "~/db/client.server";
-import { artifacts, checkRuns, voteCodeScopes, voteCodes } from "~/db/schema";
+import { voteCodeScopes, voteCodes } from "~/db/schema";
 import { stopQueue } from "~/jobs/queue.server";
 import * as archiveRoute from "~/routes/organize.party.archive";
 import * as partyDesk from "~/routes/organize.events.$eventId.party";
@@ -25,9 +25,9 @@ import { stageScreens } from "~/stage/stage.server";
 import { competitionById } from "~/showcase/showcase.server";
 import { putObject } from "~/storage/s3.server";
 import { castBallot, VoteError } from "~/voting/voting.server";
-import { makeCompleteUpload } from "../support/entries";
 import { callRoute } from "../support/routes";
 import { makeUser, request, sessionCookie } from "../support/users";
+import { twoCompoParty, withStoredFiles } from "./party.fixtures";
 import { addScores, makeCompo, setCompetition, type CompoFixture } from "./showcase.fixtures";
 
 afterAll(async () => {
@@ -37,11 +37,6 @@ afterAll(async () => {
 
 const HOUR = 3600_000;
 
-async function twoCompoParty() {
-  const a = await makeCompo({ method: "points", title: "Alpha Beam" });
-  const b = await makeCompo({ method: "points", title: "Bravo Tone", party: a });
-  return { a, b };
-}
 
 async function desk(f: CompoFixture, form: Record<string, string | string[]>) {
   const body = new URLSearchParams();
@@ -185,35 +180,6 @@ describe("awards, party results and the timetable", () => {
     expect(vote.endDate.toJSDate().getTime() - vote.startDate.toJSDate().getTime()).toBe(25 * HOUR);
   });
 });
-
-/** Gives each of the compo's entries a newest upload with real stored files and a check run with real reference artifacts. */
-async function withStoredFiles(f: CompoFixture, verdicts: ("pass" | "warn" | "fail")[]) {
-  const out: { entryId: string; files: Record<string, Buffer>; wavKey: string }[] = [];
-  for (const [i, e] of f.entries.entries()) {
-    const files = {
-      bundle: Buffer.from(`zip bytes of ${e.title} ${i}`),
-      layout: Buffer.from(`gds bytes of ${e.title} ${i}`),
-      video: Buffer.from(`webm capture of ${e.title} ${i}`),
-    };
-    const upload = await makeCompleteUpload(e.id, 2, [
-      { kind: "bundle", bytes: files.bundle, filename: "design.zip", mediaType: "application/zip" },
-      { kind: "layout", bytes: files.layout, filename: "design.gds", mediaType: "application/vnd.gdsii" },
-      { kind: "video", bytes: files.video, filename: "capture.webm", mediaType: "video/webm" },
-    ]);
-    const [run] = await db()
-      .insert(checkRuns)
-      .values({ uploadId: upload.id, state: "done", verdict: verdicts[i] ?? "pass", figures: { layout: { topCell: "gc_entry", widthUm: 180, heightUm: 120, matchedShape: "single", flipFlops: 40 + i } }, finishedAt: new Date() })
-      .returning();
-    for (const [kind, type] of [["webm", "video/webm"], ["wav", "audio/wav"], ["first-frame", "image/png"]] as const) {
-      const bytes = Buffer.from(`${kind} of ${e.title}`);
-      const key = `test-artifacts/${run.id}/${kind}`;
-      const stored = await putObject(key, bytes, type);
-      await db().insert(artifacts).values({ checkRunId: run.id, kind, s3Key: key, mediaType: type, sizeBytes: stored.size, sha256: stored.sha256 });
-    }
-    out.push({ entryId: e.id, files, wavKey: `test-artifacts/${run.id}/wav` });
-  }
-  return out;
-}
 
 async function download(fn: unknown, path: string, params: Record<string, string>, cookie: string): Promise<{ res: Response; file: string; dir: string }> {
   const res = await bodyOf(fn, path, params, cookie);
