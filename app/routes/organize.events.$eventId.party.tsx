@@ -130,7 +130,8 @@ export default function PartyDesk({ loaderData, actionData }: Route.ComponentPro
           ))}
         </ul>
         <h3 className="mt-6 font-bold">Add an award</h3>
-        <AwardForm intent="award-add" candidates={candidates} busy={busy} />
+        {/* A new key after each add empties the form. */}
+        <AwardForm key={`add-${awards.length}`} intent="award-add" candidates={candidates} busy={busy} />
       </section>
 
       <section className="card mt-6" aria-labelledby="after-h">
