@@ -80,7 +80,11 @@ export default function CompetitionRules({ loaderData }: Route.ComponentProps) {
           Draft preview: only the event's organizers see this page until the compo opens.
         </p>
       )}
-      <p className="kicker">{event.title}</p>
+      <p className="kicker">
+        <Link to={`/e/${event.slug}`} title="The party: every compo, the timetable and the awards">
+          {event.title}
+        </Link>
+      </p>
       <div className="mt-1 flex flex-wrap items-center gap-3">
         <h1 className="text-display font-extrabold">{c.title}</h1>
         <StateBadge state={c.state} />
