@@ -1,4 +1,5 @@
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
+import { slugify } from "~/competitions/forms";
 import { db } from "~/db/client.server";
 import { artifacts, checkRuns, competitions, crews, entries, events, uploadFiles, uploads } from "~/db/schema";
 import { awardsOfEvent } from "~/results/awards.server";
@@ -69,17 +70,8 @@ const EXT_BY_TYPE: Record<string, string> = {
   "application/vnd.gdsii": "gds",
 };
 
-export function safeSegment(s: string, fallback = "item"): string {
-  const out = s
-    .normalize("NFKD")
-    .replace(/[\u0300-\u036f]/g, "")
-    .toLowerCase()
-    .replace(/[^a-z0-9]+/g, "-")
-    .replace(/^-+|-+$/g, "")
-    .slice(0, 48)
-    .replace(/-+$/, "");
-  return out || fallback;
-}
+/** A file-name-safe piece of a path: lower-case letters, digits and dashes. */
+export const safeSegment = (s: string, fallback = "item") => slugify(s, fallback, 48);
 
 /** The extension of the uploaded name when it is a plain one (".tar.gz" kept whole), else from the media type. */
 export function extensionOf(filename: string | null, mediaType: string | null): string {

@@ -10,7 +10,7 @@ import { isValidTimeZone, utcToZonedWallTime, zonedWallTimeToUtc } from "./timez
 export const SLUG = /^[a-z0-9](?:[a-z0-9-]{0,62}[a-z0-9])?$/;
 const slugField = z.string().trim().toLowerCase().regex(SLUG, "Lower-case letters, digits and dashes, e.g. open-gate.").optional();
 
-export function slugify(s: string): string {
+export function slugify(s: string, fallback = "compo", maxLength = 60): string {
   return (
     s
       .normalize("NFKD")
@@ -18,8 +18,8 @@ export function slugify(s: string): string {
       .toLowerCase()
       .replace(/[^a-z0-9]+/g, "-")
       .replace(/^-+|-+$/g, "")
-      .slice(0, 60)
-      .replace(/-+$/, "") || "compo"
+      .slice(0, maxLength)
+      .replace(/-+$/, "") || fallback
   );
 }
 

@@ -1,6 +1,7 @@
 import { data, Link } from "react-router";
 import { formatInZone } from "~/competitions/timezone";
 import { PrizeCaution } from "~/components/ShowcaseStandings";
+import { AwardList } from "~/components/AwardList";
 import { StateBadge } from "~/components/StateBadge";
 import { publicParty } from "~/party/public.server";
 import { SLOT_NAMES } from "~/party/timetable";
@@ -100,15 +101,17 @@ export default function Party({ loaderData }: Route.ComponentProps) {
       {awards.length > 0 && (
         <section className="card mt-8" aria-labelledby="awards-h" data-testid="party-awards">
           <h2 id="awards-h" className="text-xl font-bold">Awards</h2>
-          <ul className="mt-3 space-y-2">
-            {awards.map((a) => (
-              <li key={a.id}>
-                <span className="font-bold">{a.title}</span>: {a.entry} by {a.crew}{" "}
-                <Link to={`${base}/${a.compoSlug}/results`} className="text-sm text-signal">({a.compo})</Link>
-                {a.citation && <p className="text-sm text-ink-soft">{a.citation}</p>}
-              </li>
-            ))}
-          </ul>
+          <AwardList
+            awards={awards}
+            extra={(a) => (
+              <>
+                {" "}
+                <Link to={`${base}/${a.compoSlug}/results`} className="text-sm text-signal">
+                  ({a.compo})
+                </Link>
+              </>
+            )}
+          />
         </section>
       )}
       <div className="mt-8">

@@ -1,4 +1,5 @@
 import { Link } from "react-router";
+import { AwardList } from "~/components/AwardList";
 import { PrizeCaution, ShowcaseStandings } from "~/components/ShowcaseStandings";
 import { StateBadge } from "~/components/StateBadge";
 import { requestedVersion, requirePublicCompetition } from "~/results/page.server";
@@ -78,14 +79,7 @@ export default function Results({ loaderData }: Route.ComponentProps) {
           {awards.length > 0 && (
             <section className="card mt-6" aria-labelledby="awards-h" data-testid="results-awards">
               <h2 id="awards-h" className="font-extrabold">Awards</h2>
-              <ul className="mt-2 space-y-2">
-                {awards.map((a) => (
-                  <li key={a.id}>
-                    <span className="font-bold">{a.title}</span>: {a.entry} by {a.crew}
-                    {a.citation && <p className="text-sm text-ink-soft">{a.citation}</p>}
-                  </li>
-                ))}
-              </ul>
+              <AwardList awards={awards} />
               <p className="mt-2 text-xs text-mute">
                 Every compo and award of the party: <Link to={`/e/${c.eventSlug}`} className="font-semibold text-signal">the party page</Link>.
               </p>
