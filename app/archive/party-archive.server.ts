@@ -1,5 +1,5 @@
 import { archivePlan, type ArchivedEntry, type ArchivePlan } from "./contents.server";
-import { sha256Hex, streamZip, type ZipItem } from "./zip-stream.server";
+import { assertStored, sha256Hex, streamZip, type ZipItem } from "./zip-stream.server";
 
 /**
  * The party archive: one folder per shown entry (source bundle, layout, capture, reference capture, info.txt),
@@ -71,6 +71,7 @@ export async function partyArchive(eventId: string, now = new Date()) {
       sums.push({ path, sha256: f.sha256 });
     }
   }
+  await assertStored(items);
   const manifest = Buffer.from(manifestText(sums), "utf8");
   items.push({ path: `${root}/${MANIFEST_NAME}`, bytes: manifest, mtime: now });
   return { plan, filename: `${root}.zip`, zip: streamZip(items) };

@@ -5,7 +5,7 @@ import { checkRuns, competitions, crews, entries, events, uploadFiles } from "~/
 import { eligibleEntries, SHOWCASE_STATES } from "~/showcase/showcase.server";
 import { safeSegment } from "./contents.server";
 import { manifestText } from "./party-archive.server";
-import { sha256Hex, streamZip, type ZipItem } from "./zip-stream.server";
+import { assertStored, sha256Hex, streamZip, type ZipItem } from "./zip-stream.server";
 
 /**
  * The shuttle export: the layouts of the entries the organizer picked, all of which passed their conformance check
@@ -121,6 +121,7 @@ export async function shuttleExport(eventId: string, entryIds: string[], now = n
     notice: "A passing Gatecrash check is not signoff: the shuttle's own design-rule and layout-versus-schematic checks still apply.",
     entries: manifestEntries,
   };
+  await assertStored(items);
   const manifestBytes = Buffer.from(JSON.stringify(manifest, null, 2) + "\n", "utf8");
   items.push({ path: `${root}/shuttle-manifest.json`, bytes: manifestBytes, mtime: now });
   const sums = [{ path: "shuttle-manifest.json", sha256: sha256Hex(manifestBytes) }, ...manifestEntries.map((m) => ({ path: m.file, sha256: m.sha256 }))];

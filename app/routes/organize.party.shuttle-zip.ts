@@ -1,7 +1,7 @@
 import { data } from "react-router";
 import { audit } from "~/audit/log.server";
 import { ShuttleError, shuttleExport } from "~/archive/shuttle.server";
-import { zipResponse } from "~/archive/zip-stream.server";
+import { ArchiveIntegrityError, zipResponse } from "~/archive/zip-stream.server";
 import { requireOrganizerEvent } from "~/competitions/access.server";
 import type { Route } from "./+types/organize.party.shuttle-zip";
 
@@ -15,6 +15,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     return zipResponse(out.zip, out.filename);
   } catch (e) {
     if (e instanceof ShuttleError) throw data({ message: e.message }, { status: 400 });
+    if (e instanceof ArchiveIntegrityError) throw data({ message: e.message }, { status: 409 });
     throw e;
   }
 }

@@ -103,6 +103,16 @@ const TABLE: Record<string, Row> = {
   "organize/:competitionId/audience/codes.csv": { loader: ORGANIZER },
   "organize/:competitionId/results": { loader: ORGANIZER, action: ORGANIZER },
   "stage/:competitionId": { loader: ORGANIZER },
+  "e/:eventSlug": { loader: PUBLIC, note: "the party page: public once a compo is past draft" },
+  "e/:eventSlug/calendar.ics": { loader: PUBLIC },
+  "e/:eventSlug/results.txt": { loader: NOBODY, note: "no compo of the party has published results yet" },
+  "e/:eventSlug/results.csv": { loader: NOBODY, note: "no compo of the party has published results yet" },
+  "organize/events/:eventId/party": { loader: ORGANIZER, action: ORGANIZER },
+  "organize/events/:eventId/party/codes": { loader: ORGANIZER },
+  "organize/events/:eventId/party/codes.csv": { loader: ORGANIZER },
+  "organize/events/:eventId/archive.zip": { loader: "DDDDDDDD..", note: "the matrix's fixture files are rows without bytes in storage: the organizer gets 409 naming them; the archive itself is tested in the party suite" },
+  "organize/events/:eventId/shuttle": { loader: ORGANIZER },
+  "organize/events/:eventId/shuttle.zip": { loader: "DDDDDDDD..", note: "with no entry chosen an organizer gets 400 (nothing to export); the export itself is tested in the party suite" },
   "*": { loader: NOBODY, note: "the not-found page is a 404 for everyone" },
 };
 

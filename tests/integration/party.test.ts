@@ -256,11 +256,22 @@ describe("after the party", () => {
   });
 
   it("the archive download aborts when a stored object no longer matches its recorded SHA-256", async () => {
-    const { a } = await twoCompoParty();
+    const a = await makeCompo();
     const stored = await withStoredFiles(a, ["pass", "pass", "pass"]);
-    await putObject(stored[1].wavKey, Buffer.from("tampered"), "audio/wav");
+    const before = await bodyOf(archiveRoute.loader, `/organize/events/${a.event.id}/archive.zip`, { eventId: a.event.id }, a.organizerCookie);
+    expect((await before.arrayBuffer()).byteLength).toBeGreaterThan(0); // whole before the tampering
+    // Same size, other bytes: only the hash on the way out can tell.
+    await putObject(stored[1].wavKey, Buffer.alloc(`wav of ${a.entries[1].title}`.length, "x"), "audio/wav");
     const res = await bodyOf(archiveRoute.loader, `/organize/events/${a.event.id}/archive.zip`, { eventId: a.event.id }, a.organizerCookie);
-    await expect(res.arrayBuffer()).rejects.toThrow();
+    expect(res.status).toBe(200); // the sizes agree, so the download starts …
+    await expect(res.arrayBuffer()).rejects.toThrow(/stored bytes hash to [0-9a-f]{64}, the upload recorded/); // … and breaks off at that file
+  });
+
+  it("an archive with a stored file missing from storage is refused up front with a clear error, naming the file", async () => {
+    const f = await makeCompo({ entryCount: 1 });
+    const out = await callRoute<{ message: string }>(archiveRoute.loader, request(`/organize/events/${f.event.id}/archive.zip`, { cookie: f.organizerCookie }), { eventId: f.event.id });
+    expect(out.status).toBe(409);
+    expect(out.data!.message).toMatch(/1 stored file cannot go into the zip: .*source\.zip is missing from storage/);
   });
 
   it("the shuttle export lists passing entries only and zips the chosen layouts with a manifest that checks out", async () => {
