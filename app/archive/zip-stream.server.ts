@@ -55,8 +55,13 @@ export function sha256Hex(b: Buffer | string): string {
   return createHash("sha256").update(b).digest("hex");
 }
 
-export function streamZip(items: ZipItem[]): { stream: Readable; totalBytes: number | null } {
+/**
+ * The zip as a web stream, made at once so that an error (a hash mismatch, storage going away) always has a reader
+ * to go to: the download breaks off, the process stays up.
+ */
+export function streamZip(items: ZipItem[]): { body: ReadableStream<Uint8Array>; totalBytes: number | null } {
   const zip = new yazl.ZipFile();
+  const body = Readable.toWeb(zip.outputStream) as ReadableStream<Uint8Array>;
   const fail = (err: Error) => zip.outputStream.destroy(err);
   zip.on("error", fail);
   for (const it of items) {
@@ -80,11 +85,11 @@ export function streamZip(items: ZipItem[]): { stream: Readable; totalBytes: num
   zip.end({}, (size: number) => {
     totalBytes = size >= 0 ? size : null;
   });
-  return { stream: zip.outputStream as Readable, totalBytes };
+  return { body, totalBytes };
 }
 
-export function zipResponse(zip: { stream: Readable; totalBytes: number | null }, filename: string): Response {
+export function zipResponse(zip: { body: ReadableStream<Uint8Array>; totalBytes: number | null }, filename: string): Response {
   const headers: Record<string, string> = { "Content-Type": "application/zip", "Content-Disposition": `attachment; filename="${filename}"`, "Cache-Control": "no-store" };
   if (zip.totalBytes !== null) headers["Content-Length"] = String(zip.totalBytes);
-  return new Response(Readable.toWeb(zip.stream) as ReadableStream, { headers });
+  return new Response(zip.body, { headers });
 }

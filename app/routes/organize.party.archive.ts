@@ -8,11 +8,11 @@ import type { Route } from "./+types/organize.party.archive";
 /** The party archive as a zip, streamed while it is written. Organizers only. */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, event } = await requireOrganizerEvent(request, params.eventId);
+  await audit({ actorUserId: user.id, eventId: event.id, action: "archive.requested", subjectType: "event", subjectId: event.id, details: {} });
   const archive = await partyArchive(event.id).catch((e: unknown) => {
     if (e instanceof ArchiveIntegrityError) throw data({ message: e.message }, { status: 409 });
     throw e;
   });
   if (!archive) throw data({ message: "There is no such party." }, { status: 404 });
-  await audit({ actorUserId: user.id, eventId: event.id, action: "archive.downloaded", subjectType: "event", subjectId: event.id, details: { entries: archive.plan.entries.length } });
   return zipResponse(archive.zip, archive.filename);
 }

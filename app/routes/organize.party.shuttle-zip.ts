@@ -10,8 +10,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, event } = await requireOrganizerEvent(request, params.eventId);
   const ids = new URL(request.url).searchParams.getAll("entry");
   try {
+    await audit({ actorUserId: user.id, eventId: event.id, action: "shuttle.requested", subjectType: "event", subjectId: event.id, details: { entryIds: ids } });
+    // Nothing awaits between the zip's start and the response that carries it.
     const out = await shuttleExport(event.id, ids);
-    await audit({ actorUserId: user.id, eventId: event.id, action: "shuttle.exported", subjectType: "event", subjectId: event.id, details: { entryIds: out.manifest.entries.map((m) => m.entry.id) } });
     return zipResponse(out.zip, out.filename);
   } catch (e) {
     if (e instanceof ShuttleError) throw data({ message: e.message }, { status: 400 });
