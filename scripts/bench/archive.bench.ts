@@ -73,17 +73,17 @@ export async function benchArchive(): Promise<void> {
       ]);
 
     const results: Record<string, { bytes: number; peakMib: number; seconds: number }> = {};
-    // Best of 3 for each (the smallest peak): the machine is shared, and collections come when they come.
+    // Worst of 3 for each (the largest peak): a collection between rounds can only make a round look better.
     for (let round = 0; round < 3; round++)
       for (const [name, keep] of [["streamed", false], ["collected into one Buffer (reference)", true]] as const) {
         const r = await peakWhile(async () => drain((await partyArchive(f.event.id))!.zip.body, keep));
         const best = results[name];
-        if (!best || r.peakMib < best.peakMib) results[name] = r;
+        if (!best || r.peakMib > best.peakMib) results[name] = r;
       }
     const ref = results["collected into one Buffer (reference)"];
     for (const [name, r] of Object.entries(results))
       console.log(
-        `${name.padEnd(40)} archive ${(r.bytes / MIB).toFixed(1)} MiB  peak heap+buffers +${r.peakMib.toFixed(1)} MiB (${((r.peakMib * MIB) / r.bytes).toFixed(3)} of the archive, ×${(r.peakMib / ref.peakMib).toFixed(2)} of the reference)  ${(r.bytes / MIB / r.seconds).toFixed(0)} MiB/s  (best of 3)`,
+        `${name.padEnd(40)} archive ${(r.bytes / MIB).toFixed(1)} MiB  peak heap+buffers +${r.peakMib.toFixed(1)} MiB (${((r.peakMib * MIB) / r.bytes).toFixed(3)} of the archive, ×${(r.peakMib / ref.peakMib).toFixed(2)} of the reference)  ${(r.bytes / MIB / r.seconds).toFixed(0)} MiB/s  (worst of 3)`,
       );
     await closeDb();
   } finally {
