@@ -4,6 +4,14 @@ import { z } from "zod";
 const envSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   DATABASE_URL: z.string().url().default("postgres://gatecrash@127.0.0.1:54329/gatecrash"),
+  /** Connections of this process's pool; transactions may hold all but one of them at once. */
+  DATABASE_POOL_MAX: z.coerce.number().int().min(2).max(200).default(10),
+  /** PostgreSQL ends a statement that runs longer (statement_timeout). */
+  DATABASE_STATEMENT_TIMEOUT_MS: z.coerce.number().int().min(100).default(15_000),
+  /** PostgreSQL ends a session left idle inside a transaction longer (idle_in_transaction_session_timeout). */
+  DATABASE_IDLE_IN_TRANSACTION_TIMEOUT_MS: z.coerce.number().int().min(100).default(10_000),
+  /** How long a transaction waits for a free connection before the request is answered 503 with Retry-After. */
+  DATABASE_ACQUIRE_TIMEOUT_MS: z.coerce.number().int().min(10).default(5_000),
   APP_URL: z.string().url().default("http://127.0.0.1:3000"),
   BETTER_AUTH_SECRET: z.string().min(32).default("dev-only-secret-change-me-0123456789abcdef"),
   S3_ENDPOINT: z.string().url().default("http://127.0.0.1:4569"),

@@ -33,8 +33,3 @@ export function cookieHeaders(call: AuthCall): Headers {
   for (const c of call.setCookies) h.append("Set-Cookie", c);
   return h;
 }
-
-/** Only same-site paths are followed after sign-in. */
-export function safeNext(next: string | null | undefined, fallback = "/"): string {
-  return next && next.startsWith("/") && !next.startsWith("//") ? next : fallback;
-}

@@ -72,7 +72,7 @@ export async function createEntry(
       .onConflictDoNothing({ target: [entries.competitionId, entries.crewId] })
       .returning({ id: entries.id });
     if (!e) return { ok: false as const, field: "crewId" as const, message: "This crew already has an entry in this competition." };
-    await audit({ actorUserId: u.id, eventId: c.eventId, action: "entry.create", subjectType: "entry", subjectId: e.id, details: { crewId: input.crewId } });
+    await audit({ actorUserId: u.id, eventId: c.eventId, action: "entry.create", subjectType: "entry", subjectId: e.id, details: { crewId: input.crewId } }, tx);
     return { ok: true as const, entryId: e.id };
   });
 }

@@ -2,6 +2,7 @@ import { getFormProps, useForm } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, redirect, useActionData, useNavigation } from "react-router";
 import { requireUser } from "~/auth/guards.server";
+import { safeRedirect } from "~/auth/redirect";
 import { FormErrors, FormField } from "~/components/FormField";
 import { crewFormSchema } from "~/crews/rules";
 import { createCrew } from "~/crews/service.server";
@@ -9,11 +10,11 @@ import type { Route } from "./+types/crews.new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New crew · Gatecrash" }];
 
-const safeNext = (next: string | null) => (next && next.startsWith("/") && !next.startsWith("//") ? next : null);
+const safeNext = (request: Request) => safeRedirect(new URL(request.url).searchParams.get("next"), null);
 
 export async function loader({ request }: Route.LoaderArgs) {
   await requireUser(request);
-  return { next: safeNext(new URL(request.url).searchParams.get("next")) };
+  return { next: safeNext(request) };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -22,7 +23,7 @@ export async function action({ request }: Route.ActionArgs) {
   if (submission.status !== "success") return submission.reply();
   const out = await createCrew(user.id, submission.value);
   if (!out.ok) return submission.reply({ fieldErrors: { [out.field ?? "handle"]: [out.message] } });
-  const next = safeNext(new URL(request.url).searchParams.get("next"));
+  const next = safeNext(request);
   return redirect(next ?? `/crews/${out.value.id}`);
 }
 

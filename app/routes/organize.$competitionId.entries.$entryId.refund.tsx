@@ -5,6 +5,7 @@ import { db } from "~/db/client.server";
 import { competitions, crews, entries } from "~/db/schema";
 import { paymentsOfEntry, refundEntryFee } from "~/payments/service.server";
 import { formatMoney } from "~/payments/states";
+import { safeRedirect } from "~/auth/redirect";
 import type { Route } from "./+types/organize.$competitionId.entries.$entryId.refund";
 
 export const meta: Route.MetaFunction = () => [{ title: "Refund entry fee · Gatecrash" }];
@@ -27,7 +28,10 @@ async function load(request: Request, competitionId: string, entryId: string) {
   return { user, competition: c, ...row };
 }
 
-const safeBack = (v: FormDataEntryValue | null) => (typeof v === "string" && v.startsWith("/organize/") ? v : null);
+const safeBack = (v: FormDataEntryValue | null) => {
+  const path = safeRedirect(v, null);
+  return path?.startsWith("/organize/") ? path : null;
+};
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { competition, entry, crew } = await load(request, params.competitionId, params.entryId);

@@ -2,7 +2,8 @@ import { getFormProps, getInputProps, useForm } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, Link, redirect, useActionData, useNavigation, useSearchParams } from "react-router";
 import { signInSchema } from "~/auth/forms";
-import { callAuth, cookieHeaders, safeNext } from "~/auth/forward.server";
+import { callAuth, cookieHeaders } from "~/auth/forward.server";
+import { safeRedirect } from "~/auth/redirect";
 import { getSession } from "~/auth/guards.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import type { Route } from "./+types/sign-in";
@@ -10,7 +11,7 @@ import type { Route } from "./+types/sign-in";
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Gatecrash" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  if (await getSession(request)) throw redirect(safeNext(new URL(request.url).searchParams.get("next")));
+  if (await getSession(request)) throw redirect(safeRedirect(new URL(request.url).searchParams.get("next"), "/"));
   return null;
 }
 
@@ -19,7 +20,7 @@ export async function action({ request }: Route.ActionArgs) {
   if (submission.status !== "success") return submission.reply({ hideFields: ["password"] });
   const { email, password, next } = submission.value;
   const res = await callAuth(request, "/sign-in/email", { email, password });
-  if (res.status === 200) return redirect(safeNext(next), { headers: cookieHeaders(res) });
+  if (res.status === 200) return redirect(safeRedirect(next, "/"), { headers: cookieHeaders(res) });
   const message =
     res.status === 429
       ? "Too many sign-in attempts. Wait a minute and try again."

@@ -160,7 +160,7 @@ export async function castBallot(opts: { competitionId: string; voter: Voter; co
       throw new VoteError("rate_limited", 429, `Too many ballots in a short time. Try again in ${hit.retryAfterSeconds} s; your last ballot stands.`, [], hit.retryAfterSeconds);
   }
 
-  return db().transaction(async (tx) => {
+  const cast = await db().transaction(async (tx) => {
     let voterUserId: string | null = null;
     let voteCodeId: string | null = null;
     let holderToken: string | undefined;
@@ -172,13 +172,8 @@ export async function castBallot(opts: { competitionId: string; voter: Voter; co
         .set({ redeemedAt: now })
         .where(and(eq(voteCodes.competitionId, c.id), eq(voteCodes.code, normalisedCode!), sql`${voteCodes.redeemedAt} is null`))
         .returning({ id: voteCodes.id, redeemedAt: voteCodes.redeemedAt });
-      if (!redeemed) {
-        const hit = await hitRateLimit(`code-attempts:${c.id}`, CODE_ATTEMPT_LIMIT, CODE_ATTEMPT_WINDOW_S, now);
-        if (!hit.allowed) throw new VoteError("rate_limited", 429, `Too many wrong codes here just now. Try again in ${hit.retryAfterSeconds} s.`, [], hit.retryAfterSeconds);
-        const [exists] = await tx.select({ id: voteCodes.id }).from(voteCodes).where(and(eq(voteCodes.competitionId, c.id), eq(voteCodes.code, normalisedCode!)));
-        if (exists) throw new VoteError("code_used", 409, "This vote code has already been used. Each code makes one ballot, changeable only from the browser that used it.");
-        throw new VoteError("code_unknown", 404, "This vote code is not one of this competition's codes. Check the letters on your slip.");
-      }
+      // Refused after the transaction: the failed attempt must count even though nothing here is kept.
+      if (!redeemed) return null;
       voteCodeId = redeemed.id;
       holderToken = codeHolderToken(env().BETTER_AUTH_SECRET, redeemed.id, redeemed.redeemedAt!);
     }
@@ -203,6 +198,17 @@ export async function castBallot(opts: { competitionId: string; voter: Voter; co
     await tx.insert(ballotHistory).values({ ballotId, content, changedAt: now });
     return { ballotId, replaced: Boolean(existing), content, holderToken };
   });
+  if (cast) return cast;
+  return refuseCode(c.id, normalisedCode!, now);
+}
+
+/** A code that redeemed nothing: counted against the competition's guessing limit, then told apart (used or unknown). */
+async function refuseCode(competitionId: string, code: string, now: Date): Promise<never> {
+  const hit = await hitRateLimit(`code-attempts:${competitionId}`, CODE_ATTEMPT_LIMIT, CODE_ATTEMPT_WINDOW_S, now);
+  if (!hit.allowed) throw new VoteError("rate_limited", 429, `Too many wrong codes here just now. Try again in ${hit.retryAfterSeconds} s.`, [], hit.retryAfterSeconds);
+  const [exists] = await db().select({ id: voteCodes.id }).from(voteCodes).where(and(eq(voteCodes.competitionId, competitionId), eq(voteCodes.code, code)));
+  if (exists) throw new VoteError("code_used", 409, "This vote code has already been used. Each code makes one ballot, changeable only from the browser that used it.");
+  throw new VoteError("code_unknown", 404, "This vote code is not one of this competition's codes. Check the letters on your slip.");
 }
 
 export async function currentBallot(competitionId: string, voter: Exclude<Voter, { kind: "new-code" }>) {
