@@ -39,16 +39,38 @@ const envSchema = z.object({
 
 export type Env = z.infer<typeof envSchema>;
 
+/**
+ * Secrets: in production each must be set, and none may keep the development default committed in this file
+ * (anyone who read the repository would know it). `npm start` and `npm test` generate their own (scripts/lib/secrets.ts).
+ */
+export const SECRET_VARIABLES = ["BETTER_AUTH_SECRET", "STRIPE_SECRET_KEY", "STRIPE_WEBHOOK_SECRET", "S3_ACCESS_KEY_ID", "S3_SECRET_ACCESS_KEY"] as const;
+
+function secretProblems(source: Record<string, string | undefined>, parsed: Env): string[] {
+  const defaults = envSchema.parse({});
+  return SECRET_VARIABLES.flatMap((name) => {
+    if (!source[name]) return [`  ${name}: not set (required in production)`];
+    if (parsed[name] === defaults[name]) return [`  ${name}: still the development default from the repository; set a secret of your own`];
+    return [];
+  });
+}
+
+/** Validates settings from `source`; throws with one line per problem, each naming its variable. */
+export function parseEnv(source: Record<string, string | undefined>): Env {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`).join("\n");
+    throw new Error(`Gatecrash cannot start: invalid environment\n${lines}`);
+  }
+  if (parsed.data.NODE_ENV === "production") {
+    const problems = secretProblems(source, parsed.data);
+    if (problems.length) throw new Error(`Gatecrash cannot start in production: secrets are missing or left at their defaults\n${problems.join("\n")}`);
+  }
+  return parsed.data;
+}
+
 let cached: Env | undefined;
 
 export function env(): Env {
-  if (!cached) {
-    const parsed = envSchema.safeParse(process.env);
-    if (!parsed.success) {
-      const lines = parsed.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`).join("\n");
-      throw new Error(`Gatecrash cannot start: invalid environment\n${lines}`);
-    }
-    cached = parsed.data;
-  }
+  cached ??= parseEnv(process.env);
   return cached;
 }

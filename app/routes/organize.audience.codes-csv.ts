@@ -1,3 +1,4 @@
+import { toCsv } from "~/security/csv";
 import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
 import { voteCodesOf } from "~/voting/voting.server";
 import type { Route } from "./+types/organize.audience.codes-csv";
@@ -6,7 +7,7 @@ import type { Route } from "./+types/organize.audience.codes-csv";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
   const rows = await voteCodesOf(c.id);
-  const body = ["code,created_at,redeemed_at", ...rows.map((r) => `${r.code},${r.createdAt},${r.redeemedAt ?? ""}`)].join("\r\n") + "\r\n";
+  const body = toCsv(["code", "created_at", "redeemed_at"], rows.map((r) => [r.code, r.createdAt, r.redeemedAt]));
   return new Response(body, {
     headers: { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="vote-codes-${c.slug}.csv"`, "Cache-Control": "no-store" },
   });
