@@ -1,11 +1,26 @@
 import { PassThrough } from "node:stream";
-import type { EntryContext, RouterContextProvider } from "react-router";
+import { RouterContextProvider, type EntryContext } from "react-router";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { ServerRouter } from "react-router";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
-import { nonceContext } from "./security/context";
+import { closeDb } from "./db/client.server";
+import { stopQueue } from "./jobs/queue.server";
+import { clientAddressContext, nonceContext } from "./security/context";
+
+/** For Gatecrash's own server (server/app.ts): the router context of one request, with the client's address. */
+export function loadContextFor(client: { address: string | null }): RouterContextProvider {
+  const context = new RouterContextProvider();
+  context.set(clientAddressContext, client.address);
+  return context;
+}
+
+/** For a graceful stop (server/main.ts): the queue client and the database pool of this process. */
+export async function closeServerResources(): Promise<void> {
+  await stopQueue();
+  await closeDb();
+}
 
 /**
  * Renders pages as a stream (bots and SPA mode wait for all content). The CSP nonce comes from the root

@@ -31,6 +31,15 @@ const envSchema = z.object({
   /** Cookies get the Secure flag when the app is served over https. */
   TRUSTED_ORIGINS: z.string().default(""),
   AUTH_RATE_LIMIT: z.coerce.number().int().default(10),
+  /**
+   * The proxies in front of the web server, whose X-Forwarded-For is believed (comma-separated addresses or CIDR
+   * ranges, or "loopback"). Empty: no proxy, the client is the socket's peer, and X-Forwarded-For is ignored.
+   */
+  TRUSTED_PROXIES: z
+    .string()
+    .default("")
+    .transform((s) => s.split(",").map((p) => p.trim()).filter(Boolean))
+    .pipe(z.array(z.union([z.ipv4(), z.ipv6(), z.cidrv4(), z.cidrv6(), z.literal("loopback")], { error: 'an IP address, a CIDR range or "loopback"' }))),
   /** How long a check-run job may stay active before pg-boss hands it to another worker (a killed worker's job). */
   CHECK_RUN_EXPIRE_SECONDS: z.coerce.number().int().min(1).default(15 * 60),
   /** How often the supervising worker expires stalled jobs (pg-boss maintenance; its default is 120 s). */

@@ -4,6 +4,7 @@ import { isAdmin, requireUser, type SessionUser } from "~/auth/guards.server";
 import { db } from "~/db/client.server";
 import { competitions, eventRoles, events } from "~/db/schema";
 import { closeIfDue } from "./service.server";
+import { isId } from "~/security/ids";
 
 /**
  * Organizer access: an event or competition is looked up together with the caller's organizer role, so an id
@@ -12,8 +13,6 @@ import { closeIfDue } from "./service.server";
 export type EventRow = typeof events.$inferSelect;
 export type CompetitionRow = typeof competitions.$inferSelect;
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-export const isUuid = (s: string | undefined): s is string => !!s && UUID.test(s);
 
 export function notFound(message = "This page does not exist, or it is not yours to see."): never {
   throw data({ message }, { status: 404 });
@@ -28,7 +27,7 @@ async function organizerOf(userId: string, eventId: string): Promise<boolean> {
 }
 
 export async function findOrganizerEvent(user: SessionUser, eventId: string | undefined): Promise<EventRow | null> {
-  if (!isUuid(eventId)) return null;
+  if (!isId(eventId)) return null;
   const [e] = await db().select().from(events).where(eq(events.id, eventId));
   if (!e) return null;
   if (!isAdmin(user) && !(await organizerOf(user.id, e.id))) return null;
@@ -48,7 +47,7 @@ export async function findOrganizerCompetition(
   competitionId: string | undefined,
   now = new Date(),
 ): Promise<{ competition: CompetitionRow; event: EventRow } | null> {
-  if (!isUuid(competitionId)) return null;
+  if (!isId(competitionId)) return null;
   const [row] = await db().select({ c: competitions, e: events }).from(competitions).innerJoin(events, eq(events.id, competitions.eventId)).where(eq(competitions.id, competitionId));
   if (!row) return null;
   if (!isAdmin(user) && !(await organizerOf(user.id, row.e.id))) return null;

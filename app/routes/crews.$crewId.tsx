@@ -7,12 +7,14 @@ import { FormErrors, FormField } from "~/components/FormField";
 import { inviteFormSchema } from "~/crews/rules";
 import { crewForMember, inviteToCrew, leaveCrew, makeCaptain } from "~/crews/service.server";
 import type { Route } from "./+types/crews.$crewId";
+import { readForm } from "~/api/body.server";
+import { isId } from "~/security/ids";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.crew.name ?? "Crew"} · Gatecrash` }];
 
 async function load(request: Request, crewId: string) {
   const user = await requireUser(request);
-  const view = /^[0-9a-f-]{36}$/i.test(crewId) ? await crewForMember(crewId, user.id) : null;
+  const view = isId(crewId) ? await crewForMember(crewId, user.id) : null;
   if (!view) throw data({ message: "This crew does not exist, or you are not in it." }, { status: 404 });
   return { user, view };
 }
@@ -33,7 +35,7 @@ const otherSchema = z.discriminatedUnion("intent", [z.object({ intent: z.literal
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, view } = await load(request, params.crewId);
-  const form = await request.formData();
+  const form = await readForm(request);
   if (form.get("intent") === "invite") {
     const submission = parseWithZod(form, { schema: inviteFormSchema });
     if (submission.status !== "success") return { invite: submission.reply(), notice: null };

@@ -7,6 +7,7 @@ import { FormErrors, FormField } from "~/components/FormField";
 import { crewFormSchema } from "~/crews/rules";
 import { createCrew } from "~/crews/service.server";
 import type { Route } from "./+types/crews.new";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New crew · Gatecrash" }];
 
@@ -19,7 +20,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const submission = parseWithZod(await request.formData(), { schema: crewFormSchema });
+  const submission = parseWithZod(await readForm(request), { schema: crewFormSchema });
   if (submission.status !== "success") return submission.reply();
   const out = await createCrew(user.id, submission.value);
   if (!out.ok) return submission.reply({ fieldErrors: { [out.field ?? "handle"]: [out.message] } });

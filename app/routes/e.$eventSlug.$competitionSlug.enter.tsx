@@ -10,6 +10,7 @@ import { entryFormSchema } from "~/entries/forms";
 import { competitionBySlugs, createEntry, entriesOfCrewsOf } from "~/entries/service.server";
 import { formatMoney } from "~/payments/states";
 import type { Route } from "./+types/e.$eventSlug.$competitionSlug.enter";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Enter ${data?.competition.title ?? "a compo"} · Gatecrash` }];
 
@@ -37,7 +38,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, competition } = await load(request, params);
-  const submission = parseWithZod(await request.formData(), { schema: entryFormSchema });
+  const submission = parseWithZod(await readForm(request), { schema: entryFormSchema });
   if (submission.status !== "success") return submission.reply();
   const out = await createEntry(user, competition.id, submission.value);
   if (!out.ok) return submission.reply(out.field ? { fieldErrors: { [out.field]: [out.message] } } : { formErrors: [out.message] });

@@ -13,6 +13,7 @@ import { FILE_KINDS, type FileKind } from "~/entries/sniff";
 import { paymentsOfEntry, startCheckout } from "~/payments/service.server";
 import { formatMoney } from "~/payments/states";
 import type { Route } from "./+types/entries.$entryId";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.entry.title ?? "Entry"} · Gatecrash` }];
 
@@ -54,7 +55,7 @@ const actionSchema = z.object({ intent: z.literal("pay") });
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, viewer, entry } = await load(request, params.entryId);
   if (viewer.role !== "crew") throw data({ message: "Only the crew can pay its entry fee." }, { status: 403 });
-  const parsed = actionSchema.safeParse(Object.fromEntries(await request.formData()));
+  const parsed = actionSchema.safeParse(Object.fromEntries(await readForm(request)));
   if (!parsed.success) throw data({ message: "Unknown action." }, { status: 400 });
   const out = await startCheckout(entry.id, user);
   if (!out.ok) return { error: out.message };

@@ -5,6 +5,7 @@ import { forgotSchema } from "~/auth/forms";
 import { callAuth } from "~/auth/forward.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import type { Route } from "./+types/forgot-password";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Forgot password · Gatecrash" }];
 
@@ -13,7 +14,7 @@ export async function loader(_: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const submission = parseWithZod(await request.formData(), { schema: forgotSchema });
+  const submission = parseWithZod(await readForm(request), { schema: forgotSchema });
   if (submission.status !== "success") return { result: submission.reply(), sent: false };
   const res = await callAuth(request, "/request-password-reset", { email: submission.value.email, redirectTo: "/reset-password" });
   if (res.status === 429) return { result: submission.reply({ formErrors: ["Too many requests. Wait a minute."] }), sent: false };

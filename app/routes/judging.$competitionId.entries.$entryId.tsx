@@ -12,6 +12,7 @@ import { declareConflict } from "~/judging/jury.server";
 import { FIGURE_SECTIONS, figureRows } from "~/judging/presentation";
 import { flashSummary } from "~/showcase/figures";
 import type { Route } from "./+types/judging.$competitionId.entries.$entryId";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.entry.title ?? "Entry"} · Judging · Gatecrash` }];
 
@@ -58,7 +59,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, c, entry } = await judgeAndEntry(request, params);
-  const submission = parseWithZod(await request.formData(), { schema: conflictReasonSchema });
+  const submission = parseWithZod(await readForm(request), { schema: conflictReasonSchema });
   if (submission.status !== "success") return submission.reply();
   await pageCall(() => declareConflict(c, { entryId: entry.id, judgeUserId: user.id, reason: submission.value.reason, declaredBy: user.id }));
   throw redirect(`/judging/${c.id}?declared=1`);

@@ -10,6 +10,7 @@ import { CompetitionForm } from "~/competitions/ui/CompetitionForm";
 import { FieldError } from "~/competitions/ui/fields";
 import { FormErrors } from "~/components/FormField";
 import type { Route } from "./+types/organize.$competitionId.edit";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Edit ${data?.competition.title ?? "compo"} · Gatecrash` }];
 
@@ -29,7 +30,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, competition, event } = await requireOrganizerCompetition(request, params.competitionId);
-  const formData = await request.formData();
+  const formData = await readForm(request);
   if (formData.get("intent") === "import") {
     const submission = parseWithZod(formData, { schema: importSchema });
     if (submission.status !== "success") return { form: "import" as const, result: submission.reply() };

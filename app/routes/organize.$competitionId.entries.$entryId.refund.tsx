@@ -7,17 +7,18 @@ import { paymentsOfEntry, refundEntryFee } from "~/payments/service.server";
 import { formatMoney } from "~/payments/states";
 import { safeRedirect } from "~/auth/redirect";
 import type { Route } from "./+types/organize.$competitionId.entries.$entryId.refund";
+import { readForm } from "~/api/body.server";
+import { isId } from "~/security/ids";
 
 export const meta: Route.MetaFunction = () => [{ title: "Refund entry fee · Gatecrash" }];
 
 /** The organizer of the competition's event only; an id from elsewhere is a 404 before anything else. */
 async function load(request: Request, competitionId: string, entryId: string) {
   await requireUser(request);
-  const uuid = /^[0-9a-f-]{36}$/i;
-  const [c] = uuid.test(competitionId) ? await db().select().from(competitions).where(eq(competitions.id, competitionId)) : [];
+  const [c] = isId(competitionId) ? await db().select().from(competitions).where(eq(competitions.id, competitionId)) : [];
   if (!c) throw data({ message: "No such competition." }, { status: 404 });
   const { user } = await requireEventRole(request, c.eventId, ["organizer"]);
-  const [row] = uuid.test(entryId)
+  const [row] = isId(entryId)
     ? await db()
         .select({ entry: entries, crew: crews })
         .from(entries)
@@ -47,7 +48,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, competition, entry } = await load(request, params.competitionId, params.entryId);
-  const form = await request.formData();
+  const form = await readForm(request);
   const out = await refundEntryFee(competition.id, entry.id, user.id);
   if (!out.ok) return { error: out.message };
   return redirect(safeBack(form.get("redirectTo")) ?? `/organize/${competition.id}/entries/${entry.id}/refund?requested=1`);

@@ -8,6 +8,7 @@ import { EntriesTable, type EntryRowView } from "~/competitions/ui/EntriesTable"
 import { StateBadge } from "~/components/StateBadge";
 import { env } from "~/env.server";
 import type { Route } from "./+types/organize.$competitionId.entries";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Entries · ${data?.competition.title ?? "Compo"} · Gatecrash` }];
 
@@ -34,7 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, competition } = await requireOrganizerCompetition(request, params.competitionId);
-  const formData = await request.formData();
+  const formData = await readForm(request);
   const submission = parseWithZod(formData, { schema: disqualifySchema });
   const entryId = String(formData.get("entryId") ?? "");
   if (submission.status !== "success") return { entryId, result: submission.reply() };

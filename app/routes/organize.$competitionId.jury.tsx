@@ -10,6 +10,7 @@ import { inviteSchema, lockSchema, optionsSchema, organizerConflictSchema } from
 import { pageCall, requireJuryOrganizer } from "~/judging/http.server";
 import { declareConflict, inviteJudge, juryOverview, removeConflict, revokeInvite, setAssignment, setJudgingLocked, setJudgingOptions } from "~/judging/jury.server";
 import type { Route } from "./+types/organize.$competitionId.jury";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Jury · ${data?.competition.title ?? "Compo"} · Gatecrash` }];
 
@@ -26,7 +27,7 @@ const idSchema = z.object({ intent: z.enum(["revoke", "remove-conflict"]), id: z
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, c } = await requireJuryOrganizer(request, params.competitionId);
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = String(form.get("intent") ?? "");
   if (intent === "invite") {
     const s = parseWithZod(form, { schema: inviteSchema });

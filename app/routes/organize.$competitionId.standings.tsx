@@ -7,6 +7,7 @@ import { requireJuryOrganizer } from "~/judging/http.server";
 import { setJuryMethod } from "~/judging/jury.server";
 import { standingsFor } from "~/judging/standings.server";
 import type { Route } from "./+types/organize.$competitionId.standings";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Standings · ${data?.competition.title ?? "Compo"} · Gatecrash` }];
 
@@ -18,7 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, c } = await requireJuryOrganizer(request, params.competitionId);
-  const s = parseWithZod(await request.formData(), { schema: methodSchema });
+  const s = parseWithZod(await readForm(request), { schema: methodSchema });
   if (s.status !== "success") return s.reply();
   if (s.value.juryMethod !== c.juryMethod) await setJuryMethod(c, s.value.juryMethod, user.id);
   return s.reply();

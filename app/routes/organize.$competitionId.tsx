@@ -7,6 +7,7 @@ import { entryCounts, moveCompetition } from "~/competitions/service.server";
 import { formatInZone } from "~/competitions/timezone";
 import { StateBadge } from "~/components/StateBadge";
 import type { Route } from "./+types/organize.$competitionId";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.competition.title ?? "Compo"} · Organize · Gatecrash` }];
 
@@ -41,7 +42,7 @@ const moveSchema = z.object({ intent: z.literal("move"), to: z.enum(COMPETITION_
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, competition } = await requireOrganizerCompetition(request, params.competitionId);
-  const parsed = moveSchema.safeParse(Object.fromEntries(await request.formData()));
+  const parsed = moveSchema.safeParse(Object.fromEntries(await readForm(request)));
   if (!parsed.success) return data({ error: "Pick one of the offered moves." }, { status: 400 });
   const moved = await moveCompetition(user.id, competition, parsed.data.to);
   if (!moved.ok) return data({ error: moved.error }, { status: 409 });

@@ -8,6 +8,7 @@ import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
 import { codeSheetSchema } from "~/voting/forms";
 import { generateVoteCodes, liveCount } from "~/voting/voting.server";
 import type { Route } from "./+types/organize.audience";
+import { readForm } from "~/api/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
@@ -19,7 +20,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
-  const submission = parseWithZod(await request.formData(), { schema: codeSheetSchema });
+  const submission = parseWithZod(await readForm(request), { schema: codeSheetSchema });
   if (submission.status !== "success") return { result: submission.reply(), made: 0 };
   const codes = await generateVoteCodes(c.id, submission.value.count);
   await audit({ actorUserId: user.id, eventId: c.eventId, action: "vote-codes.generated", subjectType: "competition", subjectId: c.id, details: { count: codes.length } });

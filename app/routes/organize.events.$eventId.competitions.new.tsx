@@ -6,6 +6,7 @@ import { competitionFormSchema, competitionToForm, competitionValues } from "~/c
 import { createCompetition } from "~/competitions/service.server";
 import { CompetitionForm } from "~/competitions/ui/CompetitionForm";
 import type { Route } from "./+types/organize.events.$eventId.competitions.new";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New compo · Gatecrash" }];
 
@@ -33,7 +34,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, event } = await requireOrganizerEvent(request, params.eventId);
-  const submission = parseWithZod(await request.formData(), { schema: competitionFormSchema(event.timeZone) });
+  const submission = parseWithZod(await readForm(request), { schema: competitionFormSchema(event.timeZone) });
   if (submission.status !== "success") return submission.reply();
   const saved = await createCompetition(user.id, event.id, competitionValues(submission.value, event.timeZone));
   if (!saved.ok) return submission.reply({ fieldErrors: saved.fieldErrors, formErrors: saved.formErrors });

@@ -7,6 +7,7 @@ import { formatInZone, timeZoneNames, utcToZonedWallTime } from "~/competitions/
 import { EventForm } from "~/competitions/ui/EventForm";
 import { StateBadge } from "~/components/StateBadge";
 import type { Route } from "./+types/organize.events.$eventId";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.event.title ?? "Event"} · Organize · Gatecrash` }];
 
@@ -32,7 +33,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, event } = await requireOrganizerEvent(request, params.eventId);
-  const submission = parseWithZod(await request.formData(), { schema: eventFormSchema });
+  const submission = parseWithZod(await readForm(request), { schema: eventFormSchema });
   if (submission.status !== "success") return submission.reply();
   const saved = await updateEvent(user.id, event.id, submission.value);
   if (!saved.ok) return submission.reply({ fieldErrors: saved.fieldErrors });

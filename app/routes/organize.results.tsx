@@ -9,6 +9,7 @@ import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
 import { publishSchema } from "~/voting/forms";
 import { windowStatus } from "~/voting/voting.server";
 import type { Route } from "./+types/organize.results";
+import { readForm } from "~/api/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
@@ -23,7 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { user, competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
-  const submission = parseWithZod(await request.formData(), { schema: publishSchema });
+  const submission = parseWithZod(await readForm(request), { schema: publishSchema });
   if (submission.status !== "success") return { result: submission.reply(), published: null };
   try {
     const p = await publishResults(c.id, user.id, submission.value.note ?? "");

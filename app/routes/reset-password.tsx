@@ -5,6 +5,7 @@ import { resetSchema } from "~/auth/forms";
 import { callAuth } from "~/auth/forward.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import type { Route } from "./+types/reset-password";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Choose a new password · Gatecrash" }];
 
@@ -13,7 +14,7 @@ export async function loader(_: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const submission = parseWithZod(await request.formData(), { schema: resetSchema });
+  const submission = parseWithZod(await readForm(request), { schema: resetSchema });
   if (submission.status !== "success") return { result: submission.reply({ hideFields: ["password"] }), done: false };
   const res = await callAuth(request, "/reset-password", { token: submission.value.token, newPassword: submission.value.password });
   if (res.status !== 200)

@@ -7,6 +7,7 @@ import { safeRedirect } from "~/auth/redirect";
 import { getSession } from "~/auth/guards.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import type { Route } from "./+types/sign-in";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Gatecrash" }];
 
@@ -16,7 +17,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const submission = parseWithZod(await request.formData(), { schema: signInSchema });
+  const submission = parseWithZod(await readForm(request), { schema: signInSchema });
   if (submission.status !== "success") return submission.reply({ hideFields: ["password"] });
   const { email, password, next } = submission.value;
   const res = await callAuth(request, "/sign-in/email", { email, password });

@@ -5,6 +5,7 @@ import { signUpSchema } from "~/auth/forms";
 import { callAuth } from "~/auth/forward.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import type { Route } from "./+types/sign-up";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Create an account · Gatecrash" }];
 
@@ -13,7 +14,7 @@ export async function loader(_: Route.LoaderArgs) {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const submission = parseWithZod(await request.formData(), { schema: signUpSchema });
+  const submission = parseWithZod(await readForm(request), { schema: signUpSchema });
   if (submission.status !== "success") return submission.reply();
   const { name, email, password } = submission.value;
   const res = await callAuth(request, "/sign-up/email", { name, email, password, callbackURL: "/welcome" });

@@ -9,6 +9,7 @@ import { ballotFromForm, voteFormSchema } from "~/voting/forms";
 import { resolveVoter } from "~/voting/page.server";
 import { castBallot, codeHolderCookie, currentBallot, VoteError, windowStatus, type Voter } from "~/voting/voting.server";
 import type { Route } from "./+types/vote";
+import { readForm } from "~/api/body.server";
 
 async function requireVotePage(params: { eventSlug?: string; competitionSlug?: string }) {
   const c = params.eventSlug && params.competitionSlug ? await competitionBySlugs(params.eventSlug, params.competitionSlug) : null;
@@ -34,7 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const c = await requireVotePage(params);
-  const submission = parseWithZod(await request.formData(), { schema: voteFormSchema });
+  const submission = parseWithZod(await readForm(request), { schema: voteFormSchema });
   if (submission.status !== "success") return { result: submission.reply(), saved: null };
   const { voter, state } = await resolveVoter(request, c.id);
   let who: Voter;

@@ -6,6 +6,7 @@ import { tallyBorda, tallyPoints, tallySchulze, validateBallot, type BallotProbl
 import { eligibleEntries } from "~/showcase/showcase.server";
 import { codeHolderToken, generateCode, normaliseCode, readCodeHolderToken, tokenMatches } from "./codes";
 import { hitRateLimit } from "./rate-limit.server";
+import { isId } from "~/security/ids";
 
 /**
  * The audience vote. Rules (also shown on the vote page):
@@ -99,7 +100,7 @@ export async function codeHolderFromCookie(competitionId: string, cookieHeader: 
   if (!raw) return null;
   const token = decodeURIComponent(raw);
   const parsed = readCodeHolderToken(token);
-  if (!parsed || !/^[0-9a-f-]{36}$/.test(parsed.codeId)) return null;
+  if (!parsed || !isId(parsed.codeId)) return null;
   const [code] = await db()
     .select({ id: voteCodes.id, redeemedAt: voteCodes.redeemedAt })
     .from(voteCodes)

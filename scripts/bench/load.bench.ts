@@ -9,6 +9,7 @@ import autocannon from "autocannon";
 import { clusterFor, createDatabase, initCluster, startCluster, stopCluster } from "../lib/postgres";
 import { applyMigrations } from "../lib/migrate";
 import { freePort } from "../lib/ports";
+import { localSecrets } from "../lib/secrets";
 import { appEnv, startStack } from "../lib/stack";
 
 type Result = autocannon.Result;
@@ -60,7 +61,7 @@ export async function benchLoad(): Promise<void> {
     // The server build resolves its packages from node_modules, so it lives inside the repository.
     const buildDir = resolve(".gatecrash", `load-build-${process.pid}`);
     cleanups.push(() => rmSync(buildDir, { recursive: true, force: true }));
-    const env: NodeJS.ProcessEnv = { ...appEnv(ports, databaseUrl, join(root, "data")), NODE_ENV: "production", GATECRASH_BUILD_DIR: buildDir };
+    const env: NodeJS.ProcessEnv = { ...appEnv(ports, databaseUrl, join(root, "data")), ...localSecrets(), NODE_ENV: "production", GATECRASH_BUILD_DIR: buildDir };
     const built = spawnSync(process.execPath, ["node_modules/@react-router/dev/bin.js", "build"], { env, stdio: "ignore" });
     if (built.status !== 0) throw new Error("build failed");
     stack = await startStack({ ports, dataDir: join(root, "data"), env, services: ["s3", "web"], quiet: true });

@@ -19,7 +19,6 @@ import { addCheckRun, makeCompo, setCompetition } from "./showcase.fixtures";
  */
 let server: Server;
 let base: string;
-let host: string;
 let cookie: string;
 
 beforeAll(async () => {
@@ -27,7 +26,6 @@ beforeAll(async () => {
   await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
   const port = (server.address() as AddressInfo).port;
   base = `http://127.0.0.1:${port}`;
-  host = `127.0.0.1:${port}`;
   cookie = await sessionCookie(await makeUser({ name: "Prober" }));
 }, 120_000);
 
@@ -181,4 +179,3 @@ describe("scores wait for entries to close", () => {
   });
 });
 
-void host;

@@ -1,13 +1,17 @@
-import { createRequestListener } from "@react-router/node";
-import type { ServerBuild } from "react-router";
 import type { RequestListener } from "node:http";
+import type { ServerBuild } from "react-router";
+import { createApp } from "../../server/app";
 
-/** The built app as a Node request listener (`npm test` builds into GATECRASH_BUILD_DIR), for supertest. */
+/**
+ * The built app behind Gatecrash's own production server (server/app.ts: security headers on everything,
+ * compression, body limits, client address), as a Node request listener for supertest or http.createServer.
+ * `npm test` builds into GATECRASH_BUILD_DIR.
+ */
 export async function builtListener(): Promise<RequestListener> {
   const dir = process.env.GATECRASH_BUILD_DIR;
   if (!dir) throw new Error("GATECRASH_BUILD_DIR is not set: run the tests through `npm test`");
   const build = (await import(/* @vite-ignore */ `${dir}/server/index.js`)) as ServerBuild;
-  return createRequestListener({ build, mode: "production" });
+  return createApp(build, `${dir}/client`, "production") as unknown as RequestListener;
 }
 
 /** The origin the app serves (APP_URL), as a browser on one of its pages would send it. */

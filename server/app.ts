@@ -1,0 +1,61 @@
+import { join } from "node:path";
+import { createRequestHandler } from "@react-router/express";
+import compression from "compression";
+import express, { type NextFunction, type Request, type Response } from "express";
+import onHeaders from "on-headers";
+import type { RouterContextProvider, ServerBuild } from "react-router";
+import { env } from "~/env.server";
+import { applySecurityHeaders, newNonce } from "~/security/headers.server";
+import { bodyLimit } from "./body-limit";
+
+/**
+ * Gatecrash's own web server for the production build (`npm start`, `npm test`, any deployment): Express with
+ * the framework's request handler, and around it what the framework leaves to the server —
+ * - the security headers on every response, static files included (a route's own headers win: pages carry the
+ *   per-request nonce from the root middleware, the SVG artifact its `default-src 'none'`);
+ * - compression;
+ * - body limits while bodies stream (./body-limit.ts);
+ * - the client address, from the socket unless TRUSTED_PROXIES names the proxy in front (then from its
+ *   X-Forwarded-For), handed to the app for per-address rate limits.
+ */
+export interface BuildEntryExtras {
+  loadContextFor(client: { address: string | null }): RouterContextProvider;
+  closeServerResources(): Promise<void>;
+}
+
+export function entryExtras(build: ServerBuild): BuildEntryExtras {
+  return build.entry.module as unknown as BuildEntryExtras;
+}
+
+function securityHeadersOnEverything(_req: Request, res: Response, next: NextFunction): void {
+  onHeaders(res, function fill() {
+    const headers = new Headers();
+    applySecurityHeaders(headers, newNonce());
+    for (const [name, value] of headers) if (!res.hasHeader(name)) res.setHeader(name, value);
+  });
+  next();
+}
+
+export function createApp(build: ServerBuild, clientDir: string, mode = process.env.NODE_ENV ?? "production"): express.Express {
+  const extras = entryExtras(build);
+  const app = express();
+  app.disable("x-powered-by");
+  const proxies = env().TRUSTED_PROXIES;
+  app.set("trust proxy", proxies.length ? proxies : false);
+  app.use(securityHeadersOnEverything);
+  app.use(compression());
+  // Fingerprinted build assets never change; everything else in public/ may.
+  app.use("/assets", express.static(join(clientDir, "assets"), { immutable: true, maxAge: "1y", index: false }));
+  app.use(express.static(clientDir, { maxAge: "1h", index: false }));
+  app.use(bodyLimit);
+  app.all("*", createRequestHandler({ build, mode, getLoadContext: (req) => extras.loadContextFor({ address: req.ip ?? null }) }));
+  // After a response has gone out (a 413 while the app still read), a late error has nobody to tell: drop the socket.
+  app.use((err: unknown, req: Request, res: Response, next: NextFunction) => {
+    if (res.headersSent) {
+      req.socket.destroy();
+      return;
+    }
+    next(err);
+  });
+  return app;
+}
