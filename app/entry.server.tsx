@@ -1,5 +1,5 @@
 import { PassThrough } from "node:stream";
-import { RouterContextProvider, type EntryContext } from "react-router";
+import type { EntryContext, RouterContextProvider } from "react-router";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { ServerRouter } from "react-router";
 import { isbot } from "isbot";
@@ -9,12 +9,8 @@ import { closeDb } from "./db/client.server";
 import { stopQueue } from "./jobs/queue.server";
 import { clientAddressContext, nonceContext } from "./security/context";
 
-/** For Gatecrash's own server (server/app.ts): the router context of one request, with the client's address. */
-export function loadContextFor(client: { address: string | null }): RouterContextProvider {
-  const context = new RouterContextProvider();
-  context.set(clientAddressContext, client.address);
-  return context;
-}
+/** For Gatecrash's own server (server/app.ts), which puts the client's address into each request's context. */
+export { clientAddressContext };
 
 /** For a graceful stop (server/main.ts): the queue client and the database pool of this process. */
 export async function closeServerResources(): Promise<void> {

@@ -76,7 +76,7 @@ async function main() {
   };
   // Generated once into .gatecrash/secrets.json and kept: the web server runs as in production, which refuses
   // the repository's development defaults.
-  const env = { ...appEnv(ports, databaseUrl, STATE), ...localSecrets(join(STATE, "secrets.json")) };
+  const env: NodeJS.ProcessEnv = { ...appEnv(ports, databaseUrl, STATE), ...localSecrets(join(STATE, "secrets.json")) };
   writeFileSync(LOCK, JSON.stringify({ pid: process.pid, web: env.APP_URL }));
 
   buildIfStale();

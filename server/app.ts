@@ -3,7 +3,8 @@ import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express, { type NextFunction, type Request, type Response } from "express";
 import onHeaders from "on-headers";
-import type { RouterContextProvider, ServerBuild } from "react-router";
+import { createRequire } from "node:module";
+import type { RouterContext, ServerBuild } from "react-router";
 import { env } from "~/env.server";
 import { applySecurityHeaders, newNonce } from "~/security/headers.server";
 import { bodyLimit } from "./body-limit";
@@ -19,9 +20,16 @@ import { bodyLimit } from "./body-limit";
  *   X-Forwarded-For), handed to the app for per-address rate limits.
  */
 export interface BuildEntryExtras {
-  loadContextFor(client: { address: string | null }): RouterContextProvider;
+  clientAddressContext: RouterContext<string | null>;
   closeServerResources(): Promise<void>;
 }
+
+/**
+ * The framework's Express adapter is CommonJS and checks the load context with `instanceof` against the CommonJS
+ * copy of react-router's RouterContextProvider, so the context is made from that copy. Context keys are plain
+ * objects and work across both copies.
+ */
+const { RouterContextProvider: AdapterContextProvider } = createRequire(import.meta.url)("react-router") as typeof import("react-router");
 
 export function entryExtras(build: ServerBuild): BuildEntryExtras {
   return build.entry.module as unknown as BuildEntryExtras;
@@ -48,7 +56,11 @@ export function createApp(build: ServerBuild, clientDir: string, mode = process.
   app.use("/assets", express.static(join(clientDir, "assets"), { immutable: true, maxAge: "1y", index: false }));
   app.use(express.static(clientDir, { maxAge: "1h", index: false }));
   app.use(bodyLimit);
-  app.all("*", createRequestHandler({ build, mode, getLoadContext: (req) => extras.loadContextFor({ address: req.ip ?? null }) }));
+  app.all("*", createRequestHandler({ build, mode, getLoadContext: (req) => {
+        const context = new AdapterContextProvider();
+        context.set(extras.clientAddressContext, req.ip ?? null);
+        return context;
+      } }));
   // After a response has gone out (a 413 while the app still read), a late error has nobody to tell: drop the socket.
   app.use((err: unknown, req: Request, res: Response, next: NextFunction) => {
     if (res.headersSent) {

@@ -1,5 +1,5 @@
 import type { z } from "zod";
-import { getSession, type SessionUser } from "~/auth/guards.server";
+import { getSession, type RequestContext, type SessionUser } from "~/auth/guards.server";
 import { readJsonText } from "./body.server";
 
 /**
@@ -23,8 +23,8 @@ export function apiJson(body: unknown, init: ResponseInit = {}): Response {
   return Response.json(body, { ...init, headers });
 }
 
-export async function requireApiUser(request: Request): Promise<SessionUser> {
-  const s = await getSession(request);
+export async function requireApiUser(context: RequestContext): Promise<SessionUser> {
+  const s = getSession(context);
   if (!s) throw apiError(401, "unauthenticated", "Sign in first.");
   return s.user;
 }

@@ -14,7 +14,11 @@ import { STORAGE_AWAY_MESSAGE, storageAnswers } from "./storage.server";
  */
 export const databaseAway: MiddlewareFunction<Response> = async ({ request }, next) => {
   const pressure = { busy: false };
-  const res = await poolPressure.run(pressure, next);
+  // A resource route's failure (a middleware below that could not read the session, say) arrives as a rejection.
+  const res = await poolPressure.run(pressure, next).catch(async (e: unknown) => {
+    if (pressure.busy || !(await databaseAnswers())) return new Response(null, { status: 500 });
+    throw e;
+  });
   if (res.status < 500 || res.status === 503) return res;
   const isApi = new URL(request.url).pathname.startsWith("/api/");
   // A transaction of this request found no free connection in time (app/db/client.server.ts): busy, not broken.

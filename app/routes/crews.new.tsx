@@ -13,13 +13,13 @@ export const meta: Route.MetaFunction = () => [{ title: "New crew · Gatecrash" 
 
 const safeNext = (request: Request) => safeRedirect(new URL(request.url).searchParams.get("next"), null);
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireUser(request, context);
   return { next: safeNext(request) };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request);
+export async function action({ request, context }: Route.ActionArgs) {
+  const user = await requireUser(request, context);
   const submission = parseWithZod(await readForm(request), { schema: crewFormSchema });
   if (submission.status !== "success") return submission.reply();
   const out = await createCrew(user.id, submission.value);

@@ -1,8 +1,9 @@
 import { and, eq } from "drizzle-orm";
 import { data, Form, redirect } from "react-router";
-import { requireEventRole, requireUser } from "~/auth/guards.server";
+import type { RequestContext } from "~/auth/guards.server";
+import { requireCompetitionRole } from "~/competitions/access.server";
 import { db } from "~/db/client.server";
-import { competitions, crews, entries } from "~/db/schema";
+import { crews, entries } from "~/db/schema";
 import { paymentsOfEntry, refundEntryFee } from "~/payments/service.server";
 import { formatMoney } from "~/payments/states";
 import { safeRedirect } from "~/auth/redirect";
@@ -13,11 +14,8 @@ import { isId } from "~/security/ids";
 export const meta: Route.MetaFunction = () => [{ title: "Refund entry fee · Gatecrash" }];
 
 /** The organizer of the competition's event only; an id from elsewhere is a 404 before anything else. */
-async function load(request: Request, competitionId: string, entryId: string) {
-  await requireUser(request);
-  const [c] = isId(competitionId) ? await db().select().from(competitions).where(eq(competitions.id, competitionId)) : [];
-  if (!c) throw data({ message: "No such competition." }, { status: 404 });
-  const { user } = await requireEventRole(request, c.eventId, ["organizer"]);
+async function load(request: Request, context: RequestContext, competitionId: string, entryId: string) {
+  const { user, competition: c } = await requireCompetitionRole(request, context, competitionId, "organizer");
   const [row] = isId(entryId)
     ? await db()
         .select({ entry: entries, crew: crews })
@@ -34,8 +32,8 @@ const safeBack = (v: FormDataEntryValue | null) => {
   return path?.startsWith("/organize/") ? path : null;
 };
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition, entry, crew } = await load(request, params.competitionId, params.entryId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition, entry, crew } = await load(request, context, params.competitionId, params.entryId);
   const ps = await paymentsOfEntry(entry.id);
   return {
     competition: { id: competition.id, title: competition.title },
@@ -46,8 +44,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition, entry } = await load(request, params.competitionId, params.entryId);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition, entry } = await load(request, context, params.competitionId, params.entryId);
   const form = await readForm(request);
   const out = await refundEntryFee(competition.id, entry.id, user.id);
   if (!out.ok) return { error: out.message };

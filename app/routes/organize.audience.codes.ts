@@ -7,8 +7,8 @@ import type { Route } from "./+types/organize.audience.codes";
 const esc = (s: string) => s.replace(/[&<>"']/g, (ch) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[ch] as string);
 
 /** A print view of the unused vote codes: one slip each, cut along the dashed lines. A whole HTML document of its own. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition: c } = await requireCompetitionOrganizer(request, context, params.competitionId);
   const codes = (await voteCodesOf(c.id)).filter((x) => !x.redeemedAt);
   const url = voteUrl(c);
   const qr = await QRCode.toString(url, { type: "svg", margin: 0, errorCorrectionLevel: "M" });

@@ -11,8 +11,8 @@ import { windowStatus } from "~/voting/voting.server";
 import type { Route } from "./+types/organize.results";
 import { readForm } from "~/api/body.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition: c } = await requireCompetitionOrganizer(request, context, params.competitionId);
   const preview = await computeStandings(c.id);
   return {
     competition: { id: c.id, title: c.title, eventTitle: c.eventTitle, eventSlug: c.eventSlug, slug: c.slug, state: c.state },
@@ -22,8 +22,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition: c } = await requireCompetitionOrganizer(request, context, params.competitionId);
   const submission = parseWithZod(await readForm(request), { schema: publishSchema });
   if (submission.status !== "success") return { result: submission.reply(), published: null };
   try {

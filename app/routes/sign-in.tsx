@@ -11,12 +11,12 @@ import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Gatecrash" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  if (await getSession(request)) throw redirect(safeRedirect(new URL(request.url).searchParams.get("next"), "/"));
+export async function loader({ request, context }: Route.LoaderArgs) {
+  if (await getSession(context)) throw redirect(safeRedirect(new URL(request.url).searchParams.get("next"), "/"));
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const submission = parseWithZod(await readForm(request), { schema: signInSchema });
   if (submission.status !== "success") return submission.reply({ hideFields: ["password"] });
   const { email, password, next } = submission.value;

@@ -1,5 +1,6 @@
 import { data, type MiddlewareFunction } from "react-router";
 import { apiError } from "~/api/json.server";
+import { readSessionOnce } from "~/auth/guards.server";
 import { databaseAway } from "~/health/middleware.server";
 import { nonceContext } from "./context";
 import { applySecurityHeaders, newNonce } from "./headers.server";
@@ -61,5 +62,8 @@ function withHeader(res: Response, name: string, value: string): Response {
   return res;
 }
 
-/** In order: headers around everything, then the 503 for a database that is away, then the origin rule. */
-export const rootMiddleware = [securityHeaders, databaseAway, sameOriginMutations];
+/**
+ * In order: headers around everything, then the 503 for a database that is away, then the origin rule, then the
+ * session, read once for the whole request (app/auth/guards.server.ts).
+ */
+export const rootMiddleware = [securityHeaders, databaseAway, sameOriginMutations, readSessionOnce];

@@ -62,7 +62,7 @@ export interface ShowcaseEntry {
 
 type CompetitionRow = typeof competitions.$inferSelect;
 
-function toPublic(c: CompetitionRow, e: typeof events.$inferSelect): PublicCompetition {
+export function publicView(c: CompetitionRow, e: typeof events.$inferSelect): PublicCompetition {
   return {
     id: c.id,
     eventId: e.id,
@@ -89,7 +89,7 @@ export async function competitionBySlugs(eventSlug: string, competitionSlug: str
     .innerJoin(events, eq(events.id, competitions.eventId))
     .where(and(eq(events.slug, eventSlug), eq(competitions.slug, competitionSlug)));
   if (!row || row.c.state === "draft") return null;
-  return toPublic(row.c, row.e);
+  return publicView(row.c, row.e);
 }
 
 export async function competitionById(competitionId: string): Promise<PublicCompetition | null> {
@@ -99,7 +99,7 @@ export async function competitionById(competitionId: string): Promise<PublicComp
     .from(competitions)
     .innerJoin(events, eq(events.id, competitions.eventId))
     .where(eq(competitions.id, competitionId));
-  return row ? toPublic(row.c, row.e) : null;
+  return row ? publicView(row.c, row.e) : null;
 }
 
 export { isId as isUuid };

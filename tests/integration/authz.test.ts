@@ -18,7 +18,8 @@ import { grantEventRole, makeUser, request, sessionCookie } from "../support/use
  * event, organizer of another event, organizer, platform admin.
  * Letters: A = allowed (a loader answers < 400; an action is not refused: no 401/403/404, no sign-in redirect),
  *          S = sent to sign in (a redirect to /sign-in, or 401 from a JSON route), N = 404 (not found: the answer
- *          never confirms that the object exists), F = 403 (forbidden: only on pages that name no object),
+ *          never confirms that the object exists), F = 403 (forbidden: on pages that name no object, or an action
+ *          on an object the same role may already see),
  *          . = not asserted (said why in the row's note).
  * "Never confirm existence": a route whose URL names an object may not answer 403 to anyone, and a made-up id
  * must get exactly the answer a real id of someone else's gets (the last test).
@@ -71,7 +72,7 @@ const TABLE: Record<string, Row> = {
   "crews/:crewId": { loader: CREW_ONLY, action: CREW_ONLY, note: "crew pages are for members only, admins included" },
   "invites/:token": { loader: "..........", action: "..........", note: "the token is the key; a made-up token is a 404 for everyone (tested in the entrant suite)" },
   "e/:eventSlug/:competitionSlug/enter": { loader: "..........", action: "..........", note: "the compo is in judging, so entering is closed for everyone" },
-  "entries/:entryId": { loader: "SNANNNNNAA", action: CREW_ONLY, note: "the organizer may look; only the crew acts" },
+  "entries/:entryId": { loader: "SNANNNNNAA", action: "SNANNNNNFF", note: "the organizer may look (so a 403 confirms nothing new); only the crew acts" },
   "organize/:competitionId/entries/:entryId/refund": { loader: ORGANIZER, action: ORGANIZER },
   "api/payments/webhook": { action: "..........", note: "authenticated by the payment service's signature, not by role" },
   "api/entries/:entryId/uploads": {
@@ -221,9 +222,13 @@ describe("the authorization matrix", () => {
     expect(missing).toEqual([]);
   });
 
-  it("never answers 403 on a route whose URL names an object", () => {
+  it("never answers 403 on a route whose URL names an object, unless the same role may see that object", () => {
     const named = ALL.filter((r) => /:\w+/.test(r.path) && TABLE[r.path]);
-    const wrong = named.flatMap((r) => (["loader", "action"] as const).filter((k) => TABLE[r.path][k]?.includes("F")).map((k) => `${k} ${r.path} expects a 403`));
+    const wrong = named.flatMap((r) =>
+      (["loader", "action"] as const).flatMap((k) =>
+        [...(TABLE[r.path][k] ?? "")].flatMap((v, i) => (v === "F" && !(k === "action" && TABLE[r.path].loader?.[i] === "A") ? [`${k} ${r.path} expects a 403 for ${ROLES[i]}`] : [])),
+      ),
+    );
     expect(wrong).toEqual([]);
   });
 

@@ -146,8 +146,8 @@ describe("entry fee checkout and webhooks", () => {
     const path = `/organize/${s.competition.id}/entries/${s.entry.id}/refund`;
     const params = { competitionId: s.competition.id, entryId: s.entry.id };
     expect((await callRoute(refundRoute.action, request(path, { form: {} }), params)).status).toBe(302); // to sign-in
-    expect((await callRoute(refundRoute.action, request(path, { cookie: s.cookie, form: {} }), params)).status).toBe(403);
-    expect((await callRoute(refundRoute.action, request(path, { cookie: await sessionCookie(outsider), form: {} }), params)).status).toBe(403);
+    expect((await callRoute(refundRoute.action, request(path, { cookie: s.cookie, form: {} }), params)).status).toBe(404);
+    expect((await callRoute(refundRoute.action, request(path, { cookie: await sessionCookie(outsider), form: {} }), params)).status).toBe(404);
     // The organizer of this competition cannot reach another competition's entry through it.
     const cross = await callRoute(refundRoute.loader, request(path, { cookie: await sessionCookie(organizer) }), { competitionId: s.competition.id, entryId: other.entry.id });
     expect(cross.status).toBe(404);
