@@ -13,10 +13,10 @@ export async function loader(_: Route.LoaderArgs) {
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const submission = parseWithZod(await readForm(request), { schema: forgotSchema });
   if (submission.status !== "success") return { result: submission.reply(), sent: false };
-  const res = await callAuth(request, "/request-password-reset", { email: submission.value.email, redirectTo: "/reset-password" });
+  const res = await callAuth(request, context, "/request-password-reset", { email: submission.value.email, redirectTo: "/reset-password" });
   if (res.status === 429) return { result: submission.reply({ formErrors: ["Too many requests. Wait a minute."] }), sent: false };
   // Same answer whether or not the address has an account, so the form cannot be used to probe addresses.
   return { result: submission.reply(), sent: true };
