@@ -1,10 +1,9 @@
 import { join } from "node:path";
-import { createRequestHandler } from "@react-router/express";
+import { createReadableStreamFromReadable, writeReadableStreamToWritable } from "@react-router/node";
 import compression from "compression";
 import express, { type NextFunction, type Request, type Response } from "express";
 import onHeaders from "on-headers";
-import { createRequire } from "node:module";
-import type { RouterContext, ServerBuild } from "react-router";
+import { createRequestHandler, RouterContextProvider, type RouterContext, type ServerBuild } from "react-router";
 import { env } from "~/env.server";
 import { applySecurityHeaders, newNonce } from "~/security/headers.server";
 import { bodyLimit } from "./body-limit";
@@ -25,11 +24,40 @@ export interface BuildEntryExtras {
 }
 
 /**
- * The framework's Express adapter is CommonJS and checks the load context with `instanceof` against the CommonJS
- * copy of react-router's RouterContextProvider, so the context is made from that copy. Context keys are plain
- * objects and work across both copies.
+ * The framework's request handler on Express. (Not @react-router/express: the handler checks the load context
+ * with `instanceof`, and that adapter's CommonJS copy of react-router is not the copy this server's context comes
+ * from; here the handler and the context come from the one import above.)
  */
-const { RouterContextProvider: AdapterContextProvider } = createRequire(import.meta.url)("react-router") as typeof import("react-router");
+function frameworkHandler(build: ServerBuild, mode: string, contextFor: (req: Request) => RouterContextProvider) {
+  const handle = createRequestHandler(build, mode);
+  return async (req: Request, res: Response, next: NextFunction) => {
+    try {
+      const controller = new AbortController();
+      res.on("close", () => {
+        if (!res.writableFinished) controller.abort();
+      });
+      const headers = new Headers();
+      for (const [name, value] of Object.entries(req.headers)) {
+        if (value === undefined) continue;
+        for (const v of Array.isArray(value) ? value : [value]) headers.append(name, v);
+      }
+      const init: RequestInit & { duplex?: "half" } = { method: req.method, headers, signal: controller.signal };
+      if (req.method !== "GET" && req.method !== "HEAD") {
+        init.body = createReadableStreamFromReadable(req);
+        init.duplex = "half";
+      }
+      const response = await handle(new globalThis.Request(`${req.protocol}://${req.get("host") ?? "localhost"}${req.originalUrl}`, init), contextFor(req));
+      if (res.destroyed || res.writableEnded) return void (await response.body?.cancel());
+      res.statusMessage = response.statusText;
+      res.status(response.status);
+      for (const [name, value] of response.headers) res.append(name, value);
+      if (response.body) await writeReadableStreamToWritable(response.body, res);
+      else res.end();
+    } catch (e) {
+      next(e);
+    }
+  };
+}
 
 export function entryExtras(build: ServerBuild): BuildEntryExtras {
   return build.entry.module as unknown as BuildEntryExtras;
@@ -56,11 +84,14 @@ export function createApp(build: ServerBuild, clientDir: string, mode = process.
   app.use("/assets", express.static(join(clientDir, "assets"), { immutable: true, maxAge: "1y", index: false }));
   app.use(express.static(clientDir, { maxAge: "1h", index: false }));
   app.use(bodyLimit);
-  app.all("*", createRequestHandler({ build, mode, getLoadContext: (req) => {
-        const context = new AdapterContextProvider();
-        context.set(extras.clientAddressContext, req.ip ?? null);
-        return context;
-      } }));
+  app.all(
+    "*",
+    frameworkHandler(build, mode, (req) => {
+      const context = new RouterContextProvider();
+      context.set(extras.clientAddressContext, req.ip ?? null);
+      return context;
+    }),
+  );
   // After a response has gone out (a 413 while the app still read), a late error has nobody to tell: drop the socket.
   app.use((err: unknown, req: Request, res: Response, next: NextFunction) => {
     if (res.headersSent) {
