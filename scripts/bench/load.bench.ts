@@ -129,6 +129,8 @@ export async function benchLoad(): Promise<void> {
       url: `${base}/api/ballots/${compo.competitionId}`,
       connections: 100,
       amount: BALLOTS,
+      // A ballot that waits its turn is still answered (200, or 503 with Retry-After); only a hang should time out.
+      timeout: 60,
       headers: { "content-type": "application/json", origin },
       requests: [
         {

@@ -21,6 +21,18 @@ export interface BurstResult {
 
 const DEADLINE_MS = 60_000;
 
+/** One request, read to the end: its status (or "no answer" by the deadline) and how long it took. */
+async function timed(url: string, init: RequestInit): Promise<{ status: string; ms: number }> {
+  const t0 = performance.now();
+  try {
+    const res = await fetch(url, { ...init, signal: AbortSignal.timeout(DEADLINE_MS) });
+    await res.arrayBuffer();
+    return { status: String(res.status), ms: performance.now() - t0 };
+  } catch {
+    return { status: "no answer", ms: performance.now() - t0 };
+  }
+}
+
 /** Fires every request at once and records each one's latency and status by kind. */
 export async function fireAll(requests: TimedRequest[]): Promise<BurstResult> {
   const statuses: Record<string, Record<string, number>> = {};
@@ -30,17 +42,9 @@ export async function fireAll(requests: TimedRequest[]): Promise<BurstResult> {
   const started = performance.now();
   await Promise.all(
     requests.map(async (r, i) => {
-      const t0 = performance.now();
-      let status: string;
-      try {
-        const res = await fetch(r.url, { ...r.init, signal: AbortSignal.timeout(DEADLINE_MS) });
-        await res.arrayBuffer();
-        status = String(res.status);
-      } catch {
-        status = "no answer";
-        noAnswer += 1;
-      }
-      ms.push(performance.now() - t0);
+      const { status, ms: took } = await timed(r.url, r.init);
+      if (status === "no answer") noAnswer += 1;
+      ms.push(took);
       each[i] = status;
       statuses[r.kind] ??= {};
       statuses[r.kind][status] = (statuses[r.kind][status] ?? 0) + 1;
@@ -81,22 +85,13 @@ export async function judgesAutosave(
   await Promise.all(
     judges.map(async (j) => {
       for (const cell of j.cells) {
-        const t0 = performance.now();
-        let status: string;
-        try {
-          const res = await fetch(url, {
-            method: "POST",
-            headers: { "content-type": "application/json", origin, cookie: j.cookie },
-            body: JSON.stringify({ ...cell, version: 0 }),
-            signal: AbortSignal.timeout(DEADLINE_MS),
-          });
-          await res.arrayBuffer();
-          status = String(res.status);
-        } catch {
-          status = "no answer";
-          noAnswer += 1;
-        }
-        ms.push(performance.now() - t0);
+        const { status, ms: took } = await timed(url, {
+          method: "POST",
+          headers: { "content-type": "application/json", origin, cookie: j.cookie },
+          body: JSON.stringify({ ...cell, version: 0 }),
+        });
+        if (status === "no answer") noAnswer += 1;
+        ms.push(took);
         statuses.autosave[status] = (statuses.autosave[status] ?? 0) + 1;
       }
     }),

@@ -1,5 +1,3 @@
-import { createServer, type Server } from "node:http";
-import type { AddressInfo } from "node:net";
 import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "~/db/client.server";
@@ -7,7 +5,7 @@ import { ballots, voteCodes } from "~/db/schema";
 import { stopQueue } from "~/jobs/queue.server";
 import { generateCode } from "~/voting/codes";
 import { generateVoteCodes } from "~/voting/voting.server";
-import { builtListener } from "../security/listener";
+import { listenBuilt } from "../security/listener";
 import { makeCompo } from "./showcase.fixtures";
 
 /**
@@ -17,18 +15,16 @@ import { makeCompo } from "./showcase.fixtures";
  * Before the transaction handles were passed down, the ballot transaction asked the pool for a second connection
  * (the rate-limit hit) while holding the first; ten such requests filled the pool of ten and nothing answered again.
  */
-let server: Server;
+let server: Awaited<ReturnType<typeof listenBuilt>>;
 let base: string;
 
 beforeAll(async () => {
-  server = createServer(await builtListener());
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  server = await listenBuilt();
+  base = server.base;
 }, 120_000);
 
 afterAll(async () => {
-  server.closeAllConnections();
-  await new Promise((resolve) => server.close(resolve));
+  await server.close();
   await stopQueue();
   await closeDb();
 });

@@ -1,5 +1,4 @@
-import { request as httpRequest, createServer, type Server } from "node:http";
-import type { AddressInfo } from "node:net";
+import { request as httpRequest } from "node:http";
 import Stripe from "stripe";
 import supertest from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -8,7 +7,7 @@ import { eq } from "drizzle-orm";
 import { artifacts, juryAssignments } from "~/db/schema";
 import { env } from "~/env.server";
 import { stopQueue } from "~/jobs/queue.server";
-import { builtListener } from "../security/listener";
+import { listenBuilt } from "../security/listener";
 import { grantEventRole, makeUser, sessionCookie } from "../support/users";
 import { addCheckRun, makeCompo, setCompetition } from "./showcase.fixtures";
 
@@ -18,21 +17,18 @@ import { addCheckRun, makeCompo, setCompetition } from "./showcase.fixtures";
  * bodies over the route's limit (RFC 9110 § 15.5.14: 413 Content Too Large), a validly signed webhook that is
  * not JSON, the SVG artifact's own policy, and score saves while entries are still open.
  */
-let server: Server;
+let server: Awaited<ReturnType<typeof listenBuilt>>;
 let base: string;
 let cookie: string;
 
 beforeAll(async () => {
-  server = createServer(await builtListener());
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  const port = (server.address() as AddressInfo).port;
-  base = `http://127.0.0.1:${port}`;
+  server = await listenBuilt();
+  base = server.base;
   cookie = await sessionCookie(await makeUser({ name: "Prober" }));
 }, 120_000);
 
 afterAll(async () => {
-  server.closeAllConnections();
-  await new Promise((resolve) => server.close(resolve));
+  await server.close();
   await stopQueue();
   await closeDb();
 });

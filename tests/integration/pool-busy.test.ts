@@ -1,5 +1,3 @@
-import { createServer, type Server } from "node:http";
-import type { AddressInfo } from "node:net";
 import postgres from "postgres";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
@@ -9,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
  * vote code from its own connection, so the server's ballot transaction for that code waits holding the one slot;
  * ballots for other codes then find no slot in time. Once the lock goes, the waiting ballot is stored.
  */
-let server: Server;
+let server: Awaited<ReturnType<typeof import("../security/listener").listenBuilt>>;
 let base: string;
 let lockConn: ReturnType<typeof postgres>;
 let closeDb: () => Promise<void>;
@@ -19,16 +17,14 @@ beforeAll(async () => {
   process.env.DATABASE_POOL_MAX = "2";
   process.env.DATABASE_ACQUIRE_TIMEOUT_MS = "100";
   closeDb = (await import("~/db/client.server")).closeDb;
-  const { builtListener } = await import("../security/listener");
-  server = createServer(await builtListener());
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const { listenBuilt } = await import("../security/listener");
+  server = await listenBuilt();
+  base = server.base;
   lockConn = postgres(process.env.DATABASE_URL!, { max: 1, onnotice: () => {} });
 }, 120_000);
 
 afterAll(async () => {
-  server?.closeAllConnections();
-  await new Promise((resolve) => server?.close(resolve));
+  await server?.close();
   await lockConn?.end({ timeout: 5 });
   const { stopQueue } = await import("~/jobs/queue.server");
   await stopQueue();
