@@ -30,7 +30,10 @@ const envSchema = z.object({
   WORKDIR: z.string().default(".gatecrash/work"),
   /** Cookies get the Secure flag when the app is served over https. */
   TRUSTED_ORIGINS: z.string().default(""),
-  AUTH_RATE_LIMIT: z.coerce.number().int().default(10),
+  /** Failed sign-ins per account and client address in 10 minutes (app/auth/sign-in-limit.server.ts). */
+  AUTH_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
+  /** Failed sign-ins per client address over all accounts in 10 minutes. */
+  AUTH_ADDRESS_FAILURE_LIMIT: z.coerce.number().int().min(1).default(50),
   /**
    * The proxies in front of the web server, whose X-Forwarded-For is believed (comma-separated addresses or CIDR
    * ranges, or "loopback"). Empty: no proxy, the client is the socket's peer, and X-Forwarded-For is ignored.

@@ -8,12 +8,12 @@ import { hitRateLimit } from "~/voting/rate-limit.server";
  * Failed sign-ins, counted in two buckets (PostgreSQL, shared by every web process):
  * - per account and client address: AUTH_RATE_LIMIT failures per window stop that address guessing that account,
  *   while the owner signing in from anywhere else is not affected;
- * - per client address over all accounts: a larger budget stops one address trying many accounts.
+ * - per client address over all accounts: AUTH_ADDRESS_FAILURE_LIMIT, a larger budget, stops one address trying
+ *   many accounts.
  * Only failures count (a hall full of people behind one party NAT signs in fine), and a success clears its pair.
  * The client address comes from the production server (TRUSTED_PROXIES decides whether X-Forwarded-For counts).
  */
 export const SIGN_IN_WINDOW_S = 10 * 60;
-export const ADDRESS_FAILURE_LIMIT = 50;
 
 const pairKey = (email: string, address: string) => `sign-in:pair:${email.trim().toLowerCase()}:${address}`;
 const addressKey = (address: string) => `sign-in:address:${address}`;
@@ -33,13 +33,13 @@ export async function signInBlocked(email: string, address: string, now = new Da
   const pair = await failuresIn(pairKey(email, address), now);
   if (pair.count >= env().AUTH_RATE_LIMIT) return pair.retryAfterSeconds;
   const spray = await failuresIn(addressKey(address), now);
-  if (spray.count >= ADDRESS_FAILURE_LIMIT) return spray.retryAfterSeconds;
+  if (spray.count >= env().AUTH_ADDRESS_FAILURE_LIMIT) return spray.retryAfterSeconds;
   return null;
 }
 
 export async function recordSignInFailure(email: string, address: string, now = new Date()): Promise<void> {
   await hitRateLimit(pairKey(email, address), env().AUTH_RATE_LIMIT, SIGN_IN_WINDOW_S, now);
-  await hitRateLimit(addressKey(address), ADDRESS_FAILURE_LIMIT, SIGN_IN_WINDOW_S, now);
+  await hitRateLimit(addressKey(address), env().AUTH_ADDRESS_FAILURE_LIMIT, SIGN_IN_WINDOW_S, now);
 }
 
 export async function clearSignInFailures(email: string, address: string): Promise<void> {

@@ -57,13 +57,21 @@ describe("SIGTERM", () => {
       await waitForPort(port, 60_000);
       // A form post whose body is still arriving when the signal comes.
       const answered = new Promise<number>((resolve, reject) => {
-        const req = httpRequest({ host: "127.0.0.1", port, path: "/sign-in", method: "POST", headers: { origin: `http://127.0.0.1:${port}`, "content-type": "application/x-www-form-urlencoded", "transfer-encoding": "chunked" } }, (res) => {
-          res.resume();
-          resolve(res.statusCode ?? 0);
-        });
+        // Expect: 100-continue makes the server say when it has the request (RFC 9110 § 10.1.1), so the signal comes
+        // while that request is in flight, not before the server has read it.
+        const req = httpRequest(
+          { host: "127.0.0.1", port, path: "/sign-in", method: "POST", headers: { origin: `http://127.0.0.1:${port}`, "content-type": "application/x-www-form-urlencoded", "transfer-encoding": "chunked", expect: "100-continue" } },
+          (res) => {
+            res.resume();
+            resolve(res.statusCode ?? 0);
+          },
+        );
         req.on("error", reject);
-        req.write("email=someone%40example.test&");
-        child.kill("SIGTERM");
+        req.on("continue", () => {
+          req.write("email=someone%40example.test&");
+          child.kill("SIGTERM");
+        });
+        req.flushHeaders();
         const finish = () => req.end("password=not-the-password");
         // The server says it is stopping before the rest of the body goes out.
         const poll = setInterval(() => {

@@ -189,9 +189,10 @@ describe("the organizer's audience page", () => {
     const f = await makeCompo({ method: "points" });
     const params = { competitionId: f.competitionId };
     const voterCookie = await sessionCookie(await makeUser());
-    expect((await callRoute(audienceRoute.loader, request(`/organize/${f.competitionId}/audience`, { cookie: voterCookie }), params)).status).toBe(403);
+    // A stranger is told nothing exists here (404), as for a made-up id; anonymous callers are sent to sign in.
+    expect((await callRoute(audienceRoute.loader, request(`/organize/${f.competitionId}/audience`, { cookie: voterCookie }), params)).status).toBe(404);
     expect((await callRoute(audienceRoute.loader, request(`/organize/${f.competitionId}/audience`), params)).status).toBe(302);
-    expect((await callRoute(codesCsv.loader, request("/x", { cookie: voterCookie }), params)).status).toBe(403);
+    expect((await callRoute(codesCsv.loader, request("/x", { cookie: voterCookie }), params)).status).toBe(404);
 
     await put(f.competitionId, { ballot: { points: { [f.entries[0].id]: 5 } } }, voterCookie);
     await put(f.competitionId, { ballot: { points: { [f.entries[0].id]: 4 } } }, voterCookie);
