@@ -5,7 +5,18 @@ import { ServerRouter } from "react-router";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
-import { nonceContext } from "./security/context";
+import { closeDb } from "./db/client.server";
+import { stopQueue } from "./jobs/queue.server";
+import { clientAddressContext, nonceContext } from "./security/context";
+
+/** For Gatecrash's own server (server/app.ts), which puts the client's address into each request's context. */
+export { clientAddressContext };
+
+/** For a graceful stop (server/main.ts): the queue client and the database pool of this process. */
+export async function closeServerResources(): Promise<void> {
+  await stopQueue();
+  await closeDb();
+}
 
 /**
  * Renders pages as a stream (bots and SPA mode wait for all content). The CSP nonce comes from the root

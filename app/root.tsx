@@ -11,8 +11,8 @@ export const middleware: Route.MiddlewareFunction[] = rootMiddleware;
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const session = await getSession(request);
+export async function loader({ context }: Route.LoaderArgs) {
+  const session = getSession(context);
   if (!session) return { user: null };
   const roles = await roleSummary(session.user);
   const user: NavUser = {

@@ -12,6 +12,7 @@ import postgres from "postgres";
 import { env } from "~/env.server";
 import { postgresBinDir } from "./lib/system-deps";
 import { rowCounts, sha256, storageClient, type BackupManifest } from "./lib/backup-format";
+import { useLocalSecretsIfPresent } from "./lib/secrets";
 
 function arg(name: string): string | undefined {
   const i = process.argv.indexOf(name);
@@ -19,6 +20,8 @@ function arg(name: string): string | undefined {
 }
 
 async function main(): Promise<number> {
+  // Against a running `npm start`: its generated secrets (the S3 fake's keys).
+  useLocalSecretsIfPresent(".gatecrash/secrets.json");
   const e = env();
   const stamp = new Date().toISOString().replace(/[:.]/g, "-");
   const dir = resolve(arg("--out") ?? join(".gatecrash", "backups", stamp));

@@ -11,8 +11,11 @@ import postgres from "postgres";
 import { env } from "~/env.server";
 import { postgresBinDir } from "./lib/system-deps";
 import { rowCounts, sha256, storageClient, tableNames, type BackupManifest } from "./lib/backup-format";
+import { useLocalSecretsIfPresent } from "./lib/secrets";
 
 async function main(): Promise<number> {
+  // Against a running `npm start`: its generated secrets (the S3 fake's keys).
+  useLocalSecretsIfPresent(".gatecrash/secrets.json");
   const folder = process.argv.slice(2).find((a) => !a.startsWith("--"));
   if (!folder) {
     console.error("usage: npm run restore -- FOLDER");

@@ -11,6 +11,7 @@ import { ensureDebianPackages, RUNTIME_PACKAGES } from "./lib/system-deps";
 import { clusterFor, createDatabase, initCluster, isRunning, recordedPort, startCluster, stopCluster } from "./lib/postgres";
 import { applyMigrations } from "./lib/migrate";
 import { pickPort } from "./lib/ports";
+import { localSecrets } from "./lib/secrets";
 import { appEnv, startStack } from "./lib/stack";
 
 const STATE = ".gatecrash";
@@ -73,7 +74,9 @@ async function main() {
     mailWeb: await pickPort(1080),
     payments: await pickPort(12111),
   };
-  const env = appEnv(ports, databaseUrl, STATE);
+  // Generated once into .gatecrash/secrets.json and kept: the web server runs as in production, which refuses
+  // the repository's development defaults.
+  const env: NodeJS.ProcessEnv = { ...appEnv(ports, databaseUrl, STATE), ...localSecrets(join(STATE, "secrets.json")) };
   writeFileSync(LOCK, JSON.stringify({ pid: process.pid, web: env.APP_URL }));
 
   buildIfStale();

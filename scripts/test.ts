@@ -13,6 +13,7 @@ import { ensureDebianPackages, RUNTIME_PACKAGES, TEST_PACKAGES } from "./lib/sys
 import { clusterFor, createDatabase, initCluster, startCluster, stopCluster } from "./lib/postgres";
 import { applyMigrations } from "./lib/migrate";
 import { freePort } from "./lib/ports";
+import { localSecrets } from "./lib/secrets";
 import { appEnv, startStack } from "./lib/stack";
 
 const args = process.argv.slice(2);
@@ -42,6 +43,8 @@ async function main(): Promise<number> {
     const ports = { web: await freePort(), s3: await freePort(), smtp: await freePort(), mailWeb: await freePort(), payments: await freePort() };
     const env: NodeJS.ProcessEnv = {
       ...appEnv(ports, databaseUrl, join(root, "data")),
+      // This run's own secrets: the web server runs as in production, which refuses the committed defaults.
+      ...localSecrets(),
       NODE_ENV: "test",
       MAIL_API_URL: `http://127.0.0.1:${ports.mailWeb}`,
       PAYMENTS_FAKE_URL: `http://127.0.0.1:${ports.payments}`,

@@ -1,5 +1,6 @@
 import type { z } from "zod";
-import { getSession, type SessionUser } from "~/auth/guards.server";
+import { getSession, type RequestContext, type SessionUser } from "~/auth/guards.server";
+import { readJsonText } from "./body.server";
 
 /**
  * The JSON API convention for every /api/* resource route: session-cookie auth through the same helpers as
@@ -22,8 +23,8 @@ export function apiJson(body: unknown, init: ResponseInit = {}): Response {
   return Response.json(body, { ...init, headers });
 }
 
-export async function requireApiUser(request: Request): Promise<SessionUser> {
-  const s = await getSession(request);
+export async function requireApiUser(context: RequestContext): Promise<SessionUser> {
+  const s = getSession(context);
   if (!s) throw apiError(401, "unauthenticated", "Sign in first.");
   return s.user;
 }
@@ -36,12 +37,14 @@ export function apiNotFound(what = "That"): never {
   throw apiError(404, "not_found", `${what} was not found.`);
 }
 
-/** Parses and validates a JSON body; a wrong body is a 400 with field errors, never a 500. */
-export async function parseJsonBody<S extends z.ZodType>(request: Request, schema: S, maxBytes = 256 * 1024): Promise<z.infer<S>> {
+/**
+ * Parses and validates a JSON body; a wrong body is a 400 with field errors, never a 500. The body is read within
+ * the route's limit (app/security/body-limits.ts) while it streams: an oversized one is a 413 before it is held whole.
+ */
+export async function parseJsonBody<S extends z.ZodType>(request: Request, schema: S, maxBytes?: number): Promise<z.infer<S>> {
   const type = request.headers.get("content-type") ?? "";
   if (!type.includes("application/json")) throw apiError(415, "unsupported_media_type", "Send the body as application/json.");
-  const text = await request.text();
-  if (text.length > maxBytes) throw apiError(413, "body_too_large", `The body is larger than ${maxBytes} bytes.`);
+  const text = await readJsonText(request, maxBytes);
   let raw: unknown;
   try {
     raw = JSON.parse(text);

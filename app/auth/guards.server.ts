@@ -1,19 +1,30 @@
-import { and, eq, inArray } from "drizzle-orm";
-import { data, redirect } from "react-router";
+import { eq } from "drizzle-orm";
+import { createContext, data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import { db } from "~/db/client.server";
-import { crewMembers, eventRoles } from "~/db/schema";
+import { crewMembers } from "~/db/schema";
 import { auth, type AuthSession } from "./auth.server";
 
 /**
- * Permission helpers used at the top of every loader and action. Pages get a redirect to sign-in when
- * anonymous and a 403 when signed in without the role; JSON API routes get the API error shape instead
- * (see ~/api/json.server).
+ * Who is asking. The root middleware reads the session once per request (`readSessionOnce`) into the router
+ * context; every guard and loader reads it from there (`getSession(context)`), never from better-auth again.
+ * Pages get a redirect to sign-in when anonymous; a signed-in caller without the role gets 404 wherever the URL
+ * names an object (the answer never confirms that it exists: app/competitions/access.server.ts), and 403 only on
+ * pages that name none (the organizer's and judge's home pages, /admin). JSON routes use ~/api/json.server.
  */
 export type SessionUser = AuthSession["user"];
 export type EventRole = "organizer" | "judge";
+export type RequestContext = Readonly<RouterContextProvider>;
 
-export async function getSession(request: Request): Promise<AuthSession | null> {
-  return auth().api.getSession({ headers: request.headers });
+/** No default: a loader run without the root middleware fails loudly instead of seeing everyone as anonymous. */
+export const sessionContext = createContext<AuthSession | null>();
+
+export const readSessionOnce: MiddlewareFunction<Response> = async ({ request, context }, next) => {
+  context.set(sessionContext, await auth().api.getSession({ headers: request.headers }));
+  return next();
+};
+
+export function getSession(context: RequestContext): AuthSession | null {
+  return context.get(sessionContext);
 }
 
 export function isAdmin(user: Pick<SessionUser, "role">): boolean {
@@ -29,46 +40,23 @@ export function forbidden(message = "You do not have access to this page."): nev
   throw data({ message }, { status: 403 });
 }
 
-export async function requireUser(request: Request): Promise<SessionUser> {
-  const s = await getSession(request);
+export function notFound(message = "This page does not exist, or it is not yours to see."): never {
+  throw data({ message }, { status: 404 });
+}
+
+export async function requireUser(request: Request, context: RequestContext): Promise<SessionUser> {
+  const s = getSession(context);
   if (!s) signInRedirect(request);
   return s.user;
 }
 
-export async function requireAdmin(request: Request): Promise<SessionUser> {
-  const user = await requireUser(request);
+export async function requireAdmin(request: Request, context: RequestContext): Promise<SessionUser> {
+  const user = await requireUser(request, context);
   if (!isAdmin(user)) forbidden();
   return user;
-}
-
-export async function eventRolesOf(userId: string, eventId: string): Promise<EventRole[]> {
-  const rows = await db()
-    .select({ role: eventRoles.role })
-    .from(eventRoles)
-    .where(and(eq(eventRoles.userId, userId), eq(eventRoles.eventId, eventId)));
-  return rows.map((r) => r.role);
-}
-
-/** The user must hold one of `roles` in the event (a platform admin passes as organizer). */
-export async function requireEventRole(request: Request, eventId: string, roles: EventRole[]): Promise<{ user: SessionUser; roles: EventRole[] }> {
-  const user = await requireUser(request);
-  const held = await eventRolesOf(user.id, eventId);
-  const ok = held.some((r) => roles.includes(r)) || (isAdmin(user) && roles.includes("organizer"));
-  if (!ok) forbidden();
-  return { user, roles: held };
 }
 
 export async function crewIdsOf(userId: string): Promise<string[]> {
   const rows = await db().select({ crewId: crewMembers.crewId }).from(crewMembers).where(eq(crewMembers.userId, userId));
   return rows.map((r) => r.crewId);
-}
-
-export async function requireCrewMember(request: Request, crewId: string): Promise<SessionUser> {
-  const user = await requireUser(request);
-  const rows = await db()
-    .select({ crewId: crewMembers.crewId })
-    .from(crewMembers)
-    .where(and(eq(crewMembers.userId, user.id), inArray(crewMembers.crewId, [crewId])));
-  if (rows.length === 0) forbidden("Only members of this crew can do that.");
-  return user;
 }

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { PIN_ROLES, RULESET_VERSION, rulesetSchema, SHAPE_NAME, type Ruleset, type RulesetInput, type TileShape } from "~/rules/ruleset";
+import { patternProblem, PIN_ROLES, RULESET_VERSION, rulesetSchema, SHAPE_NAME, type Ruleset, type RulesetInput, type TileShape } from "~/rules/ruleset";
 import { VIDEO_MODES } from "~/rules/video-modes";
 import { isValidTimeZone, utcToZonedWallTime, zonedWallTimeToUtc } from "./timezone";
 
@@ -77,14 +77,7 @@ export const criterionRowSchema = z
     if (c.scaleMax <= c.scaleMin) ctx.addIssue({ code: "custom", path: ["scaleMax"], message: "The top of the scale must be above its bottom." });
   });
 
-function compiles(p: string): boolean {
-  try {
-    new RegExp(p, "i");
-    return true;
-  } catch {
-    return false;
-  }
-}
+const compiles = (p: string): boolean => patternProblem(p) === null;
 
 const MIB = 1024 * 1024;
 
@@ -106,13 +99,16 @@ export const rulesetFormSchema = z.object({
       .refine((s) => new Set((parseShapes(s) ?? []).map((x) => x.name)).size === (parseShapes(s) ?? []).length, "Two shapes have the same name."),
   }),
   pinLayer: z.object({ layer: int(0, 65535), datatype: int(0, 65535).optional(), edgeToleranceUm: z.number({ error: "A number." }).min(0, "At least 0.").max(1000) }),
-  flipFlopPattern: z.string({ error: "A pattern." }).refine(compiles, "This regular expression does not compile."),
+  flipFlopPattern: z.string({ error: "A pattern." }).superRefine((p, ctx) => {
+    const problem = patternProblem(p);
+    if (problem) ctx.addIssue({ code: "custom", message: `This pattern does not compile: ${problem}.` });
+  }),
   flipFlopBudget: int(1, 10_000_000).optional(),
   forbiddenCellPatterns: z
     .string()
     .optional()
     .superRefine((s, ctx) => {
-      for (const p of splitLines(s ?? "")) if (!compiles(p)) ctx.addIssue({ code: "custom", message: `"${p}" does not compile as a regular expression.` });
+      for (const p of splitLines(s ?? "")) if (!compiles(p)) ctx.addIssue({ code: "custom", message: `"${p}" does not compile: ${patternProblem(p)}.` });
     }),
   uploadLimits: z.object({
     bundleMiB: positive(4096),

@@ -40,6 +40,17 @@ export function transitionProblem(c: LifecycleFacts, to: CompetitionState, now: 
   return null;
 }
 
+/**
+ * When judges may save scores and notes: once entries have closed (closed, judging) and until results are out.
+ * While the compo is open the field is still changing; after results, scores are history.
+ */
+export type ScoringWindow = "entries-open" | "scoring" | "results-out";
+
+export function scoringWindow(state: CompetitionState): ScoringWindow {
+  if (state === "draft" || state === "open") return "entries-open";
+  return state === "results" ? "results-out" : "scoring";
+}
+
 /** Entries stop at the deadline: an open competition whose deadline has come is due to close. */
 export function isDue(c: { state: string; deadlineAt: Date | null }, now: Date): boolean {
   return c.state === "open" && c.deadlineAt != null && c.deadlineAt.getTime() <= now.getTime();

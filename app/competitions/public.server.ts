@@ -1,5 +1,5 @@
 import { and, eq } from "drizzle-orm";
-import { getSession, isAdmin } from "~/auth/guards.server";
+import { getSession, isAdmin, type RequestContext } from "~/auth/guards.server";
 import { db } from "~/db/client.server";
 import { competitions, eventRoles, events } from "~/db/schema";
 import { compoSlots, slotsCalendar, type TimetableCompo } from "~/party/timetable";
@@ -9,7 +9,7 @@ import { closeIfDue, criteriaOf, storedRuleset } from "./service.server";
  * The public face of a competition: everything past draft is public; a draft is shown only to its organizers
  * (as a preview). Anything else is a 404.
  */
-export async function publicCompetition(request: Request, eventSlug: string | undefined, competitionSlug: string | undefined, now = new Date()) {
+export async function publicCompetition(context: RequestContext, eventSlug: string | undefined, competitionSlug: string | undefined, now = new Date()) {
   if (!eventSlug || !competitionSlug) return null;
   const [row] = await db()
     .select({ c: competitions, e: events })
@@ -19,7 +19,7 @@ export async function publicCompetition(request: Request, eventSlug: string | un
   if (!row) return null;
   let preview = false;
   if (row.c.state === "draft") {
-    const session = await getSession(request);
+    const session = getSession(context);
     if (!session) return null;
     const [role] = await db()
       .select({ id: eventRoles.id })

@@ -1,17 +1,8 @@
-import { rulesetSchema, type Ruleset } from "~/rules/ruleset";
+import { patternProblem, rulesetSchema, type Ruleset } from "~/rules/ruleset";
 import { VIDEO_MODES } from "~/rules/video-modes";
 
 /** Ruleset JSON import/export: zod validation with every issue named by its path, plus checks zod cannot make. */
 export type ParsedRuleset = { ok: true; ruleset: Ruleset } | { ok: false; errors: string[]; issues: { path: string; message: string }[] };
-
-function compiles(p: string): boolean {
-  try {
-    new RegExp(p, "i");
-    return true;
-  } catch {
-    return false;
-  }
-}
 
 export function validateRuleset(input: unknown): ParsedRuleset {
   const parsed = rulesetSchema.safeParse(input);
@@ -20,9 +11,11 @@ export function validateRuleset(input: unknown): ParsedRuleset {
     for (const i of parsed.error.issues) issues.push({ path: i.path.map(String).join(".") || "(top level)", message: i.message });
   } else {
     const r = parsed.data;
-    if (!compiles(r.flipFlopPattern)) issues.push({ path: "flipFlopPattern", message: "does not compile as a regular expression" });
+    const ff = patternProblem(r.flipFlopPattern);
+    if (ff) issues.push({ path: "flipFlopPattern", message: `does not compile: ${ff}` });
     r.forbiddenCellPatterns.forEach((p, i) => {
-      if (!compiles(p)) issues.push({ path: `forbiddenCellPatterns.${i}`, message: `"${p}" does not compile as a regular expression` });
+      const problem = patternProblem(p);
+      if (problem) issues.push({ path: `forbiddenCellPatterns.${i}`, message: `"${p}" does not compile: ${problem}` });
     });
     if (!(r.videoMode in VIDEO_MODES)) issues.push({ path: "videoMode", message: `unknown video mode; known: ${Object.keys(VIDEO_MODES).join(", ")}` });
     const names = r.pins.map((p) => p.name);

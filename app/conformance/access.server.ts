@@ -3,6 +3,7 @@ import { db } from "~/db/client.server";
 import { artifacts, checkRuns, competitions, crewMembers, entries, eventRoles, juryAssignments, uploads } from "~/db/schema";
 import { isAdmin, type SessionUser } from "~/auth/guards.server";
 import { countingUpload } from "./report.server";
+import { isId } from "~/security/ids";
 
 /**
  * Who may see an entry's check reports and artifacts: its crew, the event's organizers, the competition's
@@ -12,6 +13,7 @@ import { countingUpload } from "./report.server";
 const PUBLIC_STATES = new Set(["closed", "judging", "results"]);
 
 export async function entryViewer(user: SessionUser | null, entryId: string): Promise<"insider" | "public" | null> {
+  if (!isId(entryId)) return null;
   const [row] = await db()
     .select({ entry: entries, eventId: competitions.eventId, competitionState: competitions.state })
     .from(entries)
@@ -38,7 +40,7 @@ export async function entryViewer(user: SessionUser | null, entryId: string): Pr
 
 /** The artifact row if this viewer may fetch it, else null (the route answers 404 either way). */
 export async function viewableArtifact(user: SessionUser | null, artifactId: string) {
-  if (!/^[0-9a-f-]{36}$/i.test(artifactId)) return null;
+  if (!isId(artifactId)) return null;
   const [row] = await db()
     .select({ artifact: artifacts, uploadId: uploads.id, entryId: uploads.entryId })
     .from(artifacts)

@@ -6,6 +6,7 @@ import { parseRuleset, type Ruleset } from "~/rules/ruleset";
 import { audit } from "~/audit/log.server";
 import { cutoffOf } from "./deadline";
 import type { UploadRow } from "./shapes";
+import { isId } from "~/security/ids";
 
 /** Entries: who may see one, creating one in an open competition, and the dashboard's data. */
 export function rulesetOf(raw: unknown): Ruleset {
@@ -26,7 +27,7 @@ export type EntryViewer = { role: "crew" } | { role: "organizer" };
 
 /** The entry with its competition and event, if `user` is in its crew or organizes its event; else null (→ 404). */
 export async function entryForViewer(entryId: string, u: SessionUser) {
-  if (!/^[0-9a-f-]{36}$/i.test(entryId)) return null;
+  if (!isId(entryId)) return null;
   const [row] = await db()
     .select({ entry: entries, competition: competitions, event: events, crew: crews })
     .from(entries)
@@ -72,7 +73,7 @@ export async function createEntry(
       .onConflictDoNothing({ target: [entries.competitionId, entries.crewId] })
       .returning({ id: entries.id });
     if (!e) return { ok: false as const, field: "crewId" as const, message: "This crew already has an entry in this competition." };
-    await audit({ actorUserId: u.id, eventId: c.eventId, action: "entry.create", subjectType: "entry", subjectId: e.id, details: { crewId: input.crewId } });
+    await audit({ actorUserId: u.id, eventId: c.eventId, action: "entry.create", subjectType: "entry", subjectId: e.id, details: { crewId: input.crewId } }, tx);
     return { ok: true as const, entryId: e.id };
   });
 }

@@ -11,6 +11,7 @@ import { formatBytes, partPlan, safeFilename, sizeProblem } from "./parts";
 import type { PlannedFile } from "./shapes";
 import { checkKind, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "./sniff";
 import { rulesetOf } from "./service.server";
+import { isId } from "~/security/ids";
 
 /**
  * Uploads straight from the browser to S3 with presigned multipart parts. The server plans the parts, signs them,
@@ -44,7 +45,7 @@ export async function entryForUploader(entryId: string, userId: string) {
 
 /** A pending/recorded upload of an entry the user is a crew member of; null → 404. */
 export async function uploadForUploader(uploadId: string, userId: string) {
-  if (!/^[0-9a-f-]{36}$/i.test(uploadId)) return null;
+  if (!isId(uploadId)) return null;
   const [row] = await db()
     .select({ upload: uploads, entry: entries, competition: competitions })
     .from(uploads)
@@ -57,7 +58,7 @@ export async function uploadForUploader(uploadId: string, userId: string) {
 
 export async function fileForUploader(uploadId: string, fileId: string, userId: string) {
   const up = await uploadForUploader(uploadId, userId);
-  if (!up || !/^[0-9a-f-]{36}$/i.test(fileId)) return null;
+  if (!up || !isId(fileId)) return null;
   const [file] = await db().select().from(uploadFiles).where(and(eq(uploadFiles.id, fileId), eq(uploadFiles.uploadId, uploadId)));
   return file ? { ...up, file } : null;
 }

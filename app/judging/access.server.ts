@@ -58,6 +58,23 @@ export async function competitionForJudge(userId: string, competitionId: string 
   return row ?? null;
 }
 
+/** The judging shape of a competition row and its event (after requireCompetitionRole has let the caller in). */
+export function judgingView(c: typeof competitions.$inferSelect, e: typeof events.$inferSelect): JudgingCompetition {
+  return {
+    id: c.id,
+    eventId: c.eventId,
+    title: c.title,
+    state: c.state,
+    judgingLocked: c.judgingLocked,
+    blindJudging: c.blindJudging,
+    orderMode: c.orderMode,
+    orderSeed: c.orderSeed,
+    juryMethod: c.juryMethod,
+    eventTitle: e.title,
+    timeZone: e.timeZone,
+  };
+}
+
 /** The competition if the user organizes its event (a platform admin organizes every event). */
 export async function competitionForOrganizer(user: SessionUser, competitionId: string | undefined): Promise<JudgingCompetition | null> {
   if (!isUuid(competitionId)) return null;

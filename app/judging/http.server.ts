@@ -1,15 +1,16 @@
 import { data } from "react-router";
 import { apiError, requireApiUser, requireMethod, type ApiErrorBody } from "~/api/json.server";
-import { requireUser } from "~/auth/guards.server";
-import { competitionForJudge, competitionForOrganizer } from "./access.server";
+import type { RequestContext } from "~/auth/guards.server";
+import { requireCompetitionRole } from "~/competitions/access.server";
+import { competitionForJudge, judgingView } from "./access.server";
 import { JudgingError } from "./errors";
 
 /**
  * The signed-in judge and one competition they judge, or the API's 401 / 405 (a method not in `methods`) / 404,
  * in that order: the first line of every judging JSON route.
  */
-export async function requireApiJudge(request: Request, competitionId: string | undefined, methods?: string[]) {
-  const user = await requireApiUser(request);
+export async function requireApiJudge(request: Request, context: RequestContext, competitionId: string | undefined, methods?: string[]) {
+  const user = await requireApiUser(context);
   if (methods) requireMethod(request, methods);
   const competition = await competitionForJudge(user.id, competitionId);
   if (!competition) throw apiError(404, "not_found", "That competition was not found among the ones you judge.");
@@ -28,12 +29,10 @@ export function judgingApiError(e: JudgingError): Response {
   return apiError(e.status, e.code, e.message, e.fieldErrors);
 }
 
-/** The signed-in organizer and one of their compos, or the page's 404: the first line of every jury page. */
-export async function requireJuryOrganizer(request: Request, competitionId: string | undefined) {
-  const user = await requireUser(request);
-  const c = await competitionForOrganizer(user, competitionId);
-  if (!c) throw data({ message: "This compo is not among the ones you organize." }, { status: 404 });
-  return { user, c };
+/** The signed-in organizer and one of their compos in the judging shape (the guard is requireCompetitionRole). */
+export async function requireJuryOrganizer(request: Request, context: RequestContext, competitionId: string | undefined) {
+  const { user, competition, event } = await requireCompetitionRole(request, context, competitionId, "organizer");
+  return { user, c: judgingView(competition, event) };
 }
 
 /** Runs a judging service call for a JSON route; only JudgingError is translated, anything else propagates. */

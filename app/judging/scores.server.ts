@@ -3,6 +3,7 @@ import { db } from "~/db/client.server";
 import { competitions, conflicts, crewMembers, criteria, entries, juryAssignments, scoreHistory, scores, scoresheets, uploads } from "~/db/schema";
 import { JudgingError, isUuid } from "./errors";
 import { scaleError } from "./sheet";
+import { scoringWindow } from "~/competitions/lifecycle";
 
 /**
  * Saving one score or one note of a judge's scoresheet, in one transaction:
@@ -41,7 +42,9 @@ async function guardSheet(tx: Tx, judgeUserId: string, competitionId: string, en
     .where(eq(competitions.id, competitionId))
     .for("share", { of: competitions });
   if (!comp) throw new JudgingError(404, "not_found", "That competition was not found among the ones you judge.");
-  if (comp.locked) throw new JudgingError(423, "judging_closed", "Judging of this compo is closed: scores can no longer change.");
+  const window = scoringWindow(comp.state);
+  if (window === "entries-open") throw new JudgingError(409, "entries_still_open", "This compo is still open for entries: scoring starts once entries close.");
+  if (comp.locked || window === "results-out") throw new JudgingError(423, "judging_closed", "Judging of this compo is closed: scores can no longer change.");
   const [entry] = await tx
     .select({ id: entries.id, crewId: entries.crewId })
     .from(entries)

@@ -1,5 +1,5 @@
 import type { Finding } from "~/rules/findings";
-import { compileCellPattern, type Ruleset } from "~/rules/ruleset";
+import { compileCellPattern, patternProblem, type CellPattern, type Ruleset } from "~/rules/ruleset";
 import { DIE_OUTLINE_LAYER, FILL_CELL_PATTERN } from "~/gdsii/conventions";
 import type { BoxUm, LayoutSummary } from "~/gdsii/summary";
 
@@ -258,13 +258,10 @@ export function checkLayout(summary: LayoutSummary, ruleset: Ruleset): { finding
   };
 }
 
-function pattern(source: string, what: string): RegExp {
-  try {
-    return compileCellPattern(source);
-  } catch (e) {
-    if (e instanceof SyntaxError) throw new LayoutCheckError(`the ruleset's ${what} /${source}/ is not a valid regular expression: ${e.message}`);
-    throw e;
-  }
+function pattern(source: string, what: string): CellPattern {
+  const problem = patternProblem(source);
+  if (problem) throw new LayoutCheckError(`the ruleset's ${what} /${source}/ is not a valid pattern: ${problem}`);
+  return compileCellPattern(source);
 }
 
 function onEdge(x: number, y: number, die: BoxUm, tol: number): boolean {

@@ -1,13 +1,14 @@
 import { and, eq, inArray } from "drizzle-orm";
 import Stripe from "stripe";
 import { audit } from "~/audit/log.server";
-import { db } from "~/db/client.server";
+import { db, type Tx } from "~/db/client.server";
 import { competitions, crewMembers, crews, entries, events, payments, user, webhookEvents } from "~/db/schema";
 import { env } from "~/env.server";
 import { enqueueMail } from "~/mail/outbox.server";
 import { composeMail } from "~/mail/templates";
 import { applyEvidence, feeStateOf, formatMoney, type Evidence, type PaymentState } from "./states";
 import { stripe } from "./stripe.server";
+import { isId } from "~/security/ids";
 
 /**
  * Entry fees: a Checkout session per attempt, webhooks applied once each (the event id is stored in the same
@@ -69,7 +70,6 @@ export async function startCheckout(entryId: string, payer: { id: string; email:
   return { ok: true, url: session.url };
 }
 
-type Tx = Parameters<Parameters<ReturnType<typeof db>["transaction"]>[0]>[0];
 
 async function syncFeeState(tx: Tx, entryId: string): Promise<void> {
   const [e] = await tx.select({ feeAmount: competitions.feeAmount }).from(entries).innerJoin(competitions, eq(competitions.id, entries.competitionId)).where(eq(entries.id, entryId));
@@ -80,40 +80,84 @@ async function syncFeeState(tx: Tx, entryId: string): Promise<void> {
     .where(eq(entries.id, entryId));
 }
 
-/** What an event says about which payment, and what it proves. */
-function readEvent(event: Stripe.Event): { paymentId?: string; sessionId?: string; paymentIntentId?: string; evidence: Evidence } | null {
-  const obj = event.data.object as unknown as Record<string, unknown>;
-  const meta = (obj.metadata ?? {}) as Record<string, string>;
-  const pi = (v: unknown) => (typeof v === "string" ? v : v && typeof v === "object" ? ((v as { id?: string }).id ?? undefined) : undefined);
-  switch (event.type) {
-    case "checkout.session.completed": {
-      const s = event.data.object;
-      if (s.payment_status !== "paid") return null;
-      return { paymentId: meta[META], sessionId: s.id, paymentIntentId: pi(s.payment_intent), evidence: { kind: "paid", paymentIntentId: pi(s.payment_intent) ?? null } };
+/**
+ * What the payment service itself says about the object an event names. The event body is only a pointer: after
+ * the signature, the session (or payment, or charge) is retrieved through the SDK and only the service's own answer
+ * counts — its status, amount, currency and the payment id in its metadata. An event whose object the service
+ * reports as not paid (or does not know) proves nothing.
+ */
+interface ServiceFacts {
+  paymentId?: string;
+  entryId?: string;
+  sessionId?: string;
+  paymentIntentId?: string;
+  /** What was charged, in minor units; checked against the payment row (not for an expiry). */
+  amount?: number;
+  currency?: string;
+  evidence: Evidence;
+}
+
+const idOf = (v: unknown): string | undefined => (typeof v === "string" ? v : v && typeof v === "object" ? ((v as { id?: string }).id ?? undefined) : undefined);
+
+function fromMetadata(meta: Stripe.Metadata | null | undefined): Pick<ServiceFacts, "paymentId" | "entryId"> {
+  return { paymentId: meta?.[META] || undefined, entryId: meta?.entry_id || undefined };
+}
+
+async function factsFromService(event: Stripe.Event): Promise<ServiceFacts | null> {
+  const objectId = idOf(event.data.object);
+  if (!objectId) return null;
+  try {
+    switch (event.type) {
+      case "checkout.session.completed":
+      case "checkout.session.expired": {
+        const s = await stripe().checkout.sessions.retrieve(objectId);
+        const base = { ...fromMetadata(s.metadata), sessionId: s.id, amount: s.amount_total ?? undefined, currency: s.currency ?? undefined };
+        if (s.status === "complete" && s.payment_status === "paid") return { ...base, paymentIntentId: idOf(s.payment_intent), evidence: { kind: "paid", paymentIntentId: idOf(s.payment_intent) ?? null } };
+        if (s.status === "expired") return { ...base, evidence: { kind: "expired" } };
+        return null;
+      }
+      case "payment_intent.succeeded": {
+        const pi = await stripe().paymentIntents.retrieve(objectId);
+        if (pi.status !== "succeeded") return null;
+        return { ...fromMetadata(pi.metadata), paymentIntentId: pi.id, amount: pi.amount_received, currency: pi.currency, evidence: { kind: "paid", paymentIntentId: pi.id } };
+      }
+      case "charge.succeeded":
+      case "charge.refunded": {
+        const c = await stripe().charges.retrieve(objectId);
+        const pi = idOf(c.payment_intent);
+        const base = { ...fromMetadata(c.metadata), paymentIntentId: pi, amount: c.amount, currency: c.currency };
+        if (event.type === "charge.refunded") return c.amount_refunded > 0 ? { ...base, evidence: { kind: "refunded", paymentIntentId: pi ?? null, refundedTotal: c.amount_refunded } } : null;
+        return c.paid && c.status === "succeeded" ? { ...base, evidence: { kind: "paid", paymentIntentId: pi ?? null } } : null;
+      }
+      default:
+        // refund.created is recorded; its charge.refunded twin carries the cumulative amount that moves the state.
+        return null;
     }
-    case "checkout.session.expired":
-      return { paymentId: meta[META], sessionId: event.data.object.id, evidence: { kind: "expired" } };
-    case "payment_intent.succeeded":
-      return { paymentId: meta[META], paymentIntentId: event.data.object.id, evidence: { kind: "paid", paymentIntentId: event.data.object.id } };
-    case "charge.succeeded": {
-      const c = event.data.object;
-      return { paymentId: meta[META], paymentIntentId: pi(c.payment_intent), evidence: { kind: "paid", paymentIntentId: pi(c.payment_intent) ?? null } };
-    }
-    case "charge.refunded": {
-      const c = event.data.object;
-      return { paymentId: meta[META], paymentIntentId: pi(c.payment_intent), evidence: { kind: "refunded", paymentIntentId: pi(c.payment_intent) ?? null, refundedTotal: c.amount_refunded } };
-    }
-    default:
-      // refund.created is recorded; its charge.refunded twin carries the cumulative amount that moves the state.
-      return null;
+  } catch (e) {
+    // An id the service does not know proves nothing; any other failure (the service away) propagates, so the
+    // webhook answers 5xx and the service delivers the event again.
+    if (e instanceof Stripe.errors.StripeInvalidRequestError && e.statusCode === 404) return null;
+    throw e;
   }
+}
+
+type PaymentRow = typeof payments.$inferSelect;
+
+/** The service's facts belong to this payment row: same checkout, same intent once known, same entry, same money. */
+function factsFit(p: PaymentRow, f: ServiceFacts): boolean {
+  if (f.sessionId && f.sessionId !== p.checkoutSessionId) return false;
+  if (f.paymentIntentId && p.paymentIntentId && f.paymentIntentId !== p.paymentIntentId) return false;
+  if (f.entryId && f.entryId !== p.entryId) return false;
+  if (f.evidence.kind === "expired") return true;
+  return f.amount === p.amount && f.currency?.toLowerCase() === p.currency.toLowerCase();
 }
 
 export type WebhookOutcome = "applied" | "duplicate" | "ignored";
 
 /** Applies one verified event exactly once. A repeat finds its id in webhook_events and changes nothing. */
 export async function applyWebhookEvent(event: Stripe.Event): Promise<WebhookOutcome> {
-  const read = readEvent(event);
+  // Asked before the transaction: no pool connection is held while the payment service answers.
+  const facts = await factsFromService(event);
   const outcome = await db().transaction(async (tx) => {
     const [fresh] = await tx
       .insert(webhookEvents)
@@ -121,19 +165,20 @@ export async function applyWebhookEvent(event: Stripe.Event): Promise<WebhookOut
       .onConflictDoNothing({ target: webhookEvents.id })
       .returning({ id: webhookEvents.id });
     if (!fresh) return { result: "duplicate" as const, paymentId: undefined };
-    if (!read) return { result: "ignored" as const, paymentId: undefined };
-    const where = read.paymentId
-      ? eq(payments.id, read.paymentId)
-      : read.sessionId
-        ? eq(payments.checkoutSessionId, read.sessionId)
-        : read.paymentIntentId
-          ? eq(payments.paymentIntentId, read.paymentIntentId)
-          : undefined;
-    if (!where || (read.paymentId && !/^[0-9a-f-]{36}$/i.test(read.paymentId))) return { result: "ignored" as const, paymentId: undefined };
+    if (!facts) return { result: "ignored" as const, paymentId: undefined };
+    const where =
+      facts.paymentId && isId(facts.paymentId)
+        ? eq(payments.id, facts.paymentId)
+        : facts.sessionId
+          ? eq(payments.checkoutSessionId, facts.sessionId)
+          : facts.paymentIntentId
+            ? eq(payments.paymentIntentId, facts.paymentIntentId)
+            : undefined;
+    if (!where) return { result: "ignored" as const, paymentId: undefined };
     const [p] = await tx.select().from(payments).where(where).for("update");
-    if (!p) return { result: "ignored" as const, paymentId: undefined };
+    if (!p || !factsFit(p, facts)) return { result: "ignored" as const, paymentId: undefined };
     const before = { state: p.state as PaymentState, amount: p.amount, refundedAmount: p.refundedAmount, paymentIntentId: p.paymentIntentId };
-    const after = applyEvidence(before, read.evidence);
+    const after = applyEvidence(before, facts.evidence);
     await tx
       .update(payments)
       .set({ state: after.state, refundedAmount: after.refundedAmount, paymentIntentId: after.paymentIntentId, updatedAt: new Date() })

@@ -1,3 +1,4 @@
+import { toCsv } from "~/security/csv";
 import type { ResultsPayload, StandingRow } from "./results.server";
 
 /** Figures as the results pages, the CSV and the text sheet print them. */
@@ -17,16 +18,10 @@ export const METHOD_NAMES: Record<string, string> = {
   schulze: "audience ranking counted by Schulze",
 };
 
-function csvCell(v: string | number | null): string {
-  const s = v === null ? "" : String(v);
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
-/** RFC 4180 CSV (CRLF line ends, quoted where needed). */
+/** RFC 4180 CSV with formula escaping (app/security/csv.ts): entry titles and crew names are entrant-chosen. */
 export function resultsCsv(p: ResultsPayload): string {
   const head = ["place", "tied", "entry_id", "title", "crew", "mixed", "jury_score", "jury_place", "audience_score", "audience_place"];
-  const lines = [head, ...p.standings.map((r) => [r.place, r.tied ? "yes" : "no", r.entryId, r.title, r.crew, r.mixed, r.jury.score, r.jury.place, r.audience.score, r.audience.place])];
-  return lines.map((l) => l.map(csvCell).join(",")).join("\r\n") + "\r\n";
+  return toCsv(head, p.standings.map((r) => [r.place, r.tied ? "yes" : "no", r.entryId, r.title, r.crew, r.mixed, r.jury.score, r.jury.place, r.audience.score, r.audience.place]));
 }
 
 /** A plain-text results sheet, monospaced columns, for notice boards and mailing lists. */

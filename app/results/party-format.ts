@@ -1,4 +1,4 @@
-import { toCsv } from "~/party/csv";
+import { toCsv } from "~/security/csv";
 import { fmt, placeLabel } from "./format";
 import type { PartyResults } from "./party.server";
 

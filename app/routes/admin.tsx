@@ -6,8 +6,8 @@ import type { Route } from "./+types/admin";
 
 export const meta: Route.MetaFunction = () => [{ title: "Admin · Gatecrash" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireAdmin(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireAdmin(request, context);
   const [[u], [e], [c], [n]] = await Promise.all([
     db().select({ n: count() }).from(user),
     db().select({ n: count() }).from(events),

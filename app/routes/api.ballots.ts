@@ -19,9 +19,9 @@ async function competition(params: { competitionId?: string }) {
   return c;
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, params, context }: Route.LoaderArgs) {
   const c = await competition(params);
-  const { voter } = await resolveVoter(request, c.id);
+  const { voter } = await resolveVoter(request, context, c.id);
   return apiJson({
     window: { status: windowStatus(c), opensAt: c.votingOpensAt, closesAt: c.votingClosesAt },
     method: c.ballotMethod,
@@ -29,10 +29,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   });
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, params, context }: Route.ActionArgs) {
   requireMethod(request, ["PUT", "POST"]);
   const c = await competition(params);
-  const { voter } = await resolveVoter(request, c.id);
+  const { voter } = await resolveVoter(request, context, c.id);
   const body = await parseJsonBody(request, castSchema);
   let who: Voter;
   if (voter) who = voter;

@@ -4,8 +4,8 @@ import { entryForUploader, startUpload } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.entries.$entryId.uploads";
 
 /** POST: start an upload of an entry (crew members): claimed files are checked against the ruleset first. */
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireApiUser(request);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const user = await requireApiUser(context);
   requireMethod(request, ["POST"]);
   // who may upload is settled before the body is read
   if (!(await entryForUploader(params.entryId, user.id))) apiNotFound("That entry");

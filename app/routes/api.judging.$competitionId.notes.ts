@@ -11,8 +11,8 @@ const bodySchema = z.object({
   version: z.number().int().nonnegative(),
 });
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition: c } = await requireApiJudge(request, params.competitionId, ["POST"]);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition: c } = await requireApiJudge(request, context, params.competitionId, ["POST"]);
   const body = await parseJsonBody(request, bodySchema);
   const saved = await apiCall(() => saveNote({ judgeUserId: user.id, competitionId: c.id, ...body }));
   return apiJson({ saved });

@@ -18,13 +18,13 @@ const bodySchema = z.object({
   version: z.number({ error: "Send the version you saw." }).int().nonnegative(),
 });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { user, competition: c } = await requireApiJudge(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { user, competition: c } = await requireApiJudge(request, context, params.competitionId);
   return apiJson({ grid: await gridFor(user.id, c), locked: c.judgingLocked });
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition: c } = await requireApiJudge(request, params.competitionId, ["POST"]);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition: c } = await requireApiJudge(request, context, params.competitionId, ["POST"]);
   const body = await parseJsonBody(request, bodySchema);
   const saved = await apiCall(() => saveScore({ judgeUserId: user.id, competitionId: c.id, ...body }));
   return apiJson({ saved });

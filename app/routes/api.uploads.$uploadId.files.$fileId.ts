@@ -8,15 +8,15 @@ import type { Route } from "./+types/api.uploads.$uploadId.files.$fileId";
  * GET: the parts S3 already holds (resume). POST {action: "sign", partNumbers} → presigned part URLs;
  * POST {action: "part", partNumber, etag, size} → records a part S3 accepted; POST {action: "confirm"} → assemble and confirm the object (size, sniffed type, SHA-256). Crew members only.
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireApiUser(request);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const user = await requireApiUser(context);
   const f = await fileForUploader(params.uploadId, params.fileId, user.id);
   if (!f) apiNotFound("That file");
   return okJson({ id: f.file.id, state: f.file.state, rejectReason: f.file.rejectReason, parts: await storedParts(f.file) });
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireApiUser(request);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const user = await requireApiUser(context);
   requireMethod(request, ["POST"]);
   const f = await fileForUploader(params.uploadId, params.fileId, user.id);
   if (!f) apiNotFound("That file");

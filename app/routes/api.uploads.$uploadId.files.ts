@@ -4,8 +4,8 @@ import { putFile, uploadForUploader } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.uploads.$uploadId.files";
 
 /** POST: add a file to a pending upload, or replace one that was refused (crew members). */
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireApiUser(request);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const user = await requireApiUser(context);
   requireMethod(request, ["POST"]);
   // who may upload is settled before the body is read
   if (!(await uploadForUploader(params.uploadId, user.id))) apiNotFound("That upload");

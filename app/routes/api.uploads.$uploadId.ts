@@ -4,15 +4,15 @@ import { abandonUpload, completeUpload, pendingUploadFiles, uploadForUploader } 
 import type { Route } from "./+types/api.uploads.$uploadId";
 
 /** GET: an upload's state and files (to resume). POST {action: complete | abandon}. Crew members only; others get 404. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireApiUser(request);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const user = await requireApiUser(context);
   const up = await uploadForUploader(params.uploadId, user.id);
   if (!up) apiNotFound("That upload");
   return okJson({ uploadId: up.upload.id, entryId: up.entry.id, state: up.upload.state, files: await pendingUploadFiles(up.upload.id) });
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireApiUser(request);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const user = await requireApiUser(context);
   requireMethod(request, ["POST"]);
   const up = await uploadForUploader(params.uploadId, user.id);
   if (!up) apiNotFound("That upload");

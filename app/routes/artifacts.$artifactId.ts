@@ -5,8 +5,8 @@ import { objectResponse } from "~/storage/ranged-response.server";
 import type { Route } from "./+types/artifacts.$artifactId";
 
 /** Streams a check-run artifact (frames, preview video, WAV, layout picture), with byte ranges for video seeking. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const session = await getSession(request);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const session = await getSession(context);
   const artifact = await viewableArtifact(session?.user ?? null, params.artifactId);
   if (!artifact) throw data({ message: "No such file." }, { status: 404 });
   const headers = new Headers({

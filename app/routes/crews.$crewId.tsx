@@ -3,22 +3,25 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireUser } from "~/auth/guards.server";
+import type { RequestContext } from "~/auth/guards.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import { inviteFormSchema } from "~/crews/rules";
 import { crewForMember, inviteToCrew, leaveCrew, makeCaptain } from "~/crews/service.server";
 import type { Route } from "./+types/crews.$crewId";
+import { readForm } from "~/api/body.server";
+import { isId } from "~/security/ids";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.crew.name ?? "Crew"} · Gatecrash` }];
 
-async function load(request: Request, crewId: string) {
-  const user = await requireUser(request);
-  const view = /^[0-9a-f-]{36}$/i.test(crewId) ? await crewForMember(crewId, user.id) : null;
+async function load(request: Request, context: RequestContext, crewId: string) {
+  const user = await requireUser(request, context);
+  const view = isId(crewId) ? await crewForMember(crewId, user.id) : null;
   if (!view) throw data({ message: "This crew does not exist, or you are not in it." }, { status: 404 });
   return { user, view };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { user, view } = await load(request, params.crewId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { user, view } = await load(request, context, params.crewId);
   return {
     me: user.id,
     crew: { id: view.crew.id, name: view.crew.name, handle: view.crew.handle },
@@ -31,9 +34,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const otherSchema = z.discriminatedUnion("intent", [z.object({ intent: z.literal("leave") }), z.object({ intent: z.literal("captain"), memberId: z.string().min(1) })]);
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, view } = await load(request, params.crewId);
-  const form = await request.formData();
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, view } = await load(request, context, params.crewId);
+  const form = await readForm(request);
   if (form.get("intent") === "invite") {
     const submission = parseWithZod(form, { schema: inviteFormSchema });
     if (submission.status !== "success") return { invite: submission.reply(), notice: null };

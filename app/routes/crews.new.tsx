@@ -2,27 +2,29 @@ import { getFormProps, useForm } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, redirect, useActionData, useNavigation } from "react-router";
 import { requireUser } from "~/auth/guards.server";
+import { safeRedirect } from "~/auth/redirect";
 import { FormErrors, FormField } from "~/components/FormField";
 import { crewFormSchema } from "~/crews/rules";
 import { createCrew } from "~/crews/service.server";
 import type { Route } from "./+types/crews.new";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New crew · Gatecrash" }];
 
-const safeNext = (next: string | null) => (next && next.startsWith("/") && !next.startsWith("//") ? next : null);
+const safeNext = (request: Request) => safeRedirect(new URL(request.url).searchParams.get("next"), null);
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request);
-  return { next: safeNext(new URL(request.url).searchParams.get("next")) };
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireUser(request, context);
+  return { next: safeNext(request) };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request);
-  const submission = parseWithZod(await request.formData(), { schema: crewFormSchema });
+export async function action({ request, context }: Route.ActionArgs) {
+  const user = await requireUser(request, context);
+  const submission = parseWithZod(await readForm(request), { schema: crewFormSchema });
   if (submission.status !== "success") return submission.reply();
   const out = await createCrew(user.id, submission.value);
   if (!out.ok) return submission.reply({ fieldErrors: { [out.field ?? "handle"]: [out.message] } });
-  const next = safeNext(new URL(request.url).searchParams.get("next"));
+  const next = safeNext(request);
   return redirect(next ?? `/crews/${out.value.id}`);
 }
 

@@ -3,8 +3,8 @@ import { competitionCalendar, publicCompetition } from "~/competitions/public.se
 import type { Route } from "./+types/e.$eventSlug.$competitionSlug.calendar[.]ics";
 
 /** The compo's deadline and voting window as an iCalendar file (RFC 5545). Public past draft. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const found = await publicCompetition(request, params.eventSlug, params.competitionSlug);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const found = await publicCompetition(context, params.eventSlug, params.competitionSlug);
   if (!found) throw data({ message: "No such compo." }, { status: 404 });
   const pageUrl = new URL(`/e/${found.event.slug}/${found.competition.slug}`, request.url).toString();
   const body = competitionCalendar(found.competition, found.event, pageUrl, new Date());

@@ -2,6 +2,7 @@ import { getFormProps, getSelectProps, getTextareaProps, useForm } from "@confor
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect, useActionData, useNavigation } from "react-router";
 import { requireUser } from "~/auth/guards.server";
+import type { RequestContext } from "~/auth/guards.server";
 import { formatInZone } from "~/components/CompetitionList";
 import { FormErrors, FormField } from "~/components/FormField";
 import { crewsOf } from "~/crews/service.server";
@@ -10,18 +11,19 @@ import { entryFormSchema } from "~/entries/forms";
 import { competitionBySlugs, createEntry, entriesOfCrewsOf } from "~/entries/service.server";
 import { formatMoney } from "~/payments/states";
 import type { Route } from "./+types/e.$eventSlug.$competitionSlug.enter";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Enter ${data?.competition.title ?? "a compo"} · Gatecrash` }];
 
-async function load(request: Request, params: { eventSlug: string; competitionSlug: string }) {
-  const user = await requireUser(request);
+async function load(request: Request, context: RequestContext, params: { eventSlug: string; competitionSlug: string }) {
+  const user = await requireUser(request, context);
   const row = await competitionBySlugs(params.eventSlug, params.competitionSlug);
   if (!row) throw data({ message: "This competition does not exist or is not public." }, { status: 404 });
   return { user, ...row };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { user, competition, event } = await load(request, params);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { user, competition, event } = await load(request, context, params);
   const crews = await crewsOf(user.id);
   const taken = await entriesOfCrewsOf(crews.map((c) => c.id));
   const cutoff = cutoffOf(competition.deadlineAt, competition.graceMinutes);
@@ -35,9 +37,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition } = await load(request, params);
-  const submission = parseWithZod(await request.formData(), { schema: entryFormSchema });
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition } = await load(request, context, params);
+  const submission = parseWithZod(await readForm(request), { schema: entryFormSchema });
   if (submission.status !== "success") return submission.reply();
   const out = await createEntry(user, competition.id, submission.value);
   if (!out.ok) return submission.reply(out.field ? { fieldErrors: { [out.field]: [out.message] } } : { formErrors: [out.message] });

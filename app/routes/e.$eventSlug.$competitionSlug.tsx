@@ -12,8 +12,8 @@ import type { Route } from "./+types/e.$eventSlug.$competitionSlug";
 export const meta: Route.MetaFunction = ({ data }) =>
   data ? [{ title: `${data.competition.title} · ${data.event.title} · Gatecrash` }, { name: "description", content: `Rules of ${data.competition.title}: pins, tile, video timing, deadline and fee.` }] : [{ title: "Compo · Gatecrash" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const found = await publicCompetition(request, params.eventSlug, params.competitionSlug);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const found = await publicCompetition(context, params.eventSlug, params.competitionSlug);
   if (!found) throw data({ message: "No such compo, or it is not public yet." }, { status: 404 });
   const { competition: c, event: e, ruleset, criteria, preview } = found;
   const iso = (d: Date | null) => d?.toISOString() ?? null;

@@ -1,6 +1,7 @@
 import { data, Form, Link, redirect, useRevalidator } from "react-router";
 import { z } from "zod";
 import { requireUser } from "~/auth/guards.server";
+import type { RequestContext } from "~/auth/guards.server";
 import { CheckRunPanel } from "~/components/conformance/CheckRunPanel";
 import { UploadCountdown } from "~/components/UploadCountdown";
 import { UploadList } from "~/components/UploadList";
@@ -13,18 +14,19 @@ import { FILE_KINDS, type FileKind } from "~/entries/sniff";
 import { paymentsOfEntry, startCheckout } from "~/payments/service.server";
 import { formatMoney } from "~/payments/states";
 import type { Route } from "./+types/entries.$entryId";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.entry.title ?? "Entry"} · Gatecrash` }];
 
-async function load(request: Request, entryId: string) {
-  const user = await requireUser(request);
+async function load(request: Request, context: RequestContext, entryId: string) {
+  const user = await requireUser(request, context);
   const row = await entryForViewer(entryId, user);
   if (!row) throw data({ message: "This entry does not exist, or it is not yours to see." }, { status: 404 });
   return { user, ...row };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { entry, competition, event, crew, viewer } = await load(request, params.entryId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { entry, competition, event, crew, viewer } = await load(request, context, params.entryId);
   const ruleset = rulesetOf(competition.ruleset);
   const cutoff = cutoffOf(competition.deadlineAt, competition.graceMinutes);
   const open = competition.state === "open" && entry.state === "active" && (!cutoff || cutoff > new Date());
@@ -51,10 +53,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const actionSchema = z.object({ intent: z.literal("pay") });
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, viewer, entry } = await load(request, params.entryId);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, viewer, entry } = await load(request, context, params.entryId);
   if (viewer.role !== "crew") throw data({ message: "Only the crew can pay its entry fee." }, { status: 403 });
-  const parsed = actionSchema.safeParse(Object.fromEntries(await request.formData()));
+  const parsed = actionSchema.safeParse(Object.fromEntries(await readForm(request)));
   if (!parsed.success) throw data({ message: "Unknown action." }, { status: 400 });
   const out = await startCheckout(entry.id, user);
   if (!out.ok) return { error: out.message };

@@ -5,6 +5,7 @@ import { forgotSchema } from "~/auth/forms";
 import { callAuth } from "~/auth/forward.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import type { Route } from "./+types/forgot-password";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Forgot password · Gatecrash" }];
 
@@ -12,10 +13,10 @@ export async function loader(_: Route.LoaderArgs) {
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const submission = parseWithZod(await request.formData(), { schema: forgotSchema });
+export async function action({ request, context }: Route.ActionArgs) {
+  const submission = parseWithZod(await readForm(request), { schema: forgotSchema });
   if (submission.status !== "success") return { result: submission.reply(), sent: false };
-  const res = await callAuth(request, "/request-password-reset", { email: submission.value.email, redirectTo: "/reset-password" });
+  const res = await callAuth(request, context, "/request-password-reset", { email: submission.value.email, redirectTo: "/reset-password" });
   if (res.status === 429) return { result: submission.reply({ formErrors: ["Too many requests. Wait a minute."] }), sent: false };
   // Same answer whether or not the address has an account, so the form cannot be used to probe addresses.
   return { result: submission.reply(), sent: true };

@@ -10,8 +10,8 @@ export const meta: Route.MetaFunction = () => [
   { name: "description", content: "Enter, check and judge Verilog demos that race the beam on a shared chip." },
 ];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const session = await getSession(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const session = await getSession(context);
   const open = await publicCompetitions();
   if (!session) return { signedIn: false as const, open };
   const roles = await roleSummary(session.user);

@@ -5,15 +5,15 @@ import type { Route } from "./+types/invites.$token";
 
 export const meta: Route.MetaFunction = () => [{ title: "Crew invitation · Gatecrash" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  await requireUser(request);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  await requireUser(request, context);
   const inv = await inviteByToken(params.token);
   const problem = inviteProblem(inv);
   return { problem: problem ? INVITE_PROBLEM_TEXT[problem] : null, crewName: problem ? null : inv?.crewName ?? null, handle: problem ? null : inv?.handle ?? null };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireUser(request);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const user = await requireUser(request, context);
   const out = await acceptInvite(params.token, user.id);
   if (!out.ok) return { error: out.message };
   return redirect(`/crews/${out.value.crewId}`);

@@ -6,15 +6,15 @@ import type { Route } from "./+types/judge-invites.$token";
 
 export const meta: Route.MetaFunction = () => [{ title: "Jury invitation · Gatecrash" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const user = await requireUser(request, context);
   const invite = await findInvite(params.token);
   if (!invite) throw data({ message: "This invitation does not exist or was withdrawn." }, { status: 404 });
   return { eventTitle: invite.eventTitle, email: invite.email, state: invite.state, you: user.email, matches: invite.email.toLowerCase() === user.email.toLowerCase() };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const user = await requireUser(request);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const user = await requireUser(request, context);
   await pageCall(() => acceptInvite(params.token, user));
   throw redirect("/judging");
 }

@@ -2,6 +2,7 @@ import { getFormProps, getTextareaProps, useForm } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect, useActionData } from "react-router";
 import { requireUser } from "~/auth/guards.server";
+import type { RequestContext } from "~/auth/guards.server";
 import { ScoringEntryMedia } from "~/components/ScoringEntryMedia";
 import { latestCheckFor } from "~/conformance/report.server";
 import { competitionForJudge } from "~/judging/access.server";
@@ -12,21 +13,22 @@ import { declareConflict } from "~/judging/jury.server";
 import { FIGURE_SECTIONS, figureRows } from "~/judging/presentation";
 import { flashSummary } from "~/showcase/figures";
 import type { Route } from "./+types/judging.$competitionId.entries.$entryId";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.entry.title ?? "Entry"} · Judging · Gatecrash` }];
 
-async function judgeAndEntry(request: Request, params: { competitionId?: string; entryId?: string }) {
-  const user = await requireUser(request);
+async function judgeAndEntry(request: Request, context: RequestContext, params: { competitionId?: string; entryId?: string }) {
+  const user = await requireUser(request, context);
   const c = await competitionForJudge(user.id, params.competitionId);
   if (!c) throw data({ message: "This compo is not among the ones you judge." }, { status: 404 });
   const entry = await entryForJudge(user.id, c, params.entryId);
-  if (entry === "conflict") throw data({ message: "You have a conflict with this entry, so it is not shown to you and you cannot score it." }, { status: 403 });
+  if (entry === "conflict") throw data({ message: "You have a conflict with this entry, so it is not shown to you and you cannot score it." }, { status: 404 });
   if (!entry) throw data({ message: "This entry is not on your grid." }, { status: 404 });
   return { user, c, entry };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { c, entry } = await judgeAndEntry(request, params);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { c, entry } = await judgeAndEntry(request, context, params);
   const check = await latestCheckFor(entry.id);
   const figures = check?.run?.figures ?? {};
   const a = check?.artifacts ?? {};
@@ -56,9 +58,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, c, entry } = await judgeAndEntry(request, params);
-  const submission = parseWithZod(await request.formData(), { schema: conflictReasonSchema });
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, c, entry } = await judgeAndEntry(request, context, params);
+  const submission = parseWithZod(await readForm(request), { schema: conflictReasonSchema });
   if (submission.status !== "success") return submission.reply();
   await pageCall(() => declareConflict(c, { entryId: entry.id, judgeUserId: user.id, reason: submission.value.reason, declaredBy: user.id }));
   throw redirect(`/judging/${c.id}?declared=1`);

@@ -8,8 +8,8 @@ import type { Route } from "./+types/judging.$competitionId";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.competition.title ?? "Scoring"} · Judging · Gatecrash` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const user = await requireUser(request, context);
   const c = await competitionForJudge(user.id, params.competitionId);
   if (!c) throw data({ message: "This compo is not among the ones you judge." }, { status: 404 });
   const grid = await gridFor(user.id, c);

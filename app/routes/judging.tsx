@@ -6,8 +6,8 @@ import type { Route } from "./+types/judging";
 
 export const meta: Route.MetaFunction = () => [{ title: "Judging · Gatecrash" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const user = await requireUser(request, context);
   const roles = await roleSummary(user);
   if (roles.judgeOf.length === 0) forbidden("Only judges of an event can open this page.");
   return { competitions: await competitionsOfEvents(roles.judgeOf.map((e) => e.id)) };

@@ -13,8 +13,8 @@ export const meta: Route.MetaFunction = () => [{ title: "My entries · Gatecrash
 
 const FEE: Record<string, string> = { not_required: "no fee", unpaid: "fee unpaid", pending: "payment open", paid: "fee paid", refunded: "fee refunded" };
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const user = await requireUser(request, context);
   const crewIds = await crewIdsOf(user.id);
   const rows =
     crewIds.length === 0

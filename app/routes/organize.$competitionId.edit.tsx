@@ -2,7 +2,7 @@ import { getFormProps, getTextareaProps, useForm, type SubmissionResult } from "
 import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, Link, redirect, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
-import { requireOrganizerCompetition } from "~/competitions/access.server";
+import { requireCompetitionRole } from "~/competitions/access.server";
 import { competitionFormSchema, competitionToForm, competitionValues } from "~/competitions/forms";
 import { parseRulesetJson } from "~/competitions/ruleset-io";
 import { criteriaOf, FROZEN_STATES, importRuleset, storedRuleset, updateCompetition } from "~/competitions/service.server";
@@ -10,13 +10,14 @@ import { CompetitionForm } from "~/competitions/ui/CompetitionForm";
 import { FieldError } from "~/competitions/ui/fields";
 import { FormErrors } from "~/components/FormField";
 import type { Route } from "./+types/organize.$competitionId.edit";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Edit ${data?.competition.title ?? "compo"} · Gatecrash` }];
 
 const importSchema = z.object({ intent: z.literal("import"), rulesetJson: z.string().optional() });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition, event } = await requireOrganizerCompetition(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition, event } = await requireCompetitionRole(request, context, params.competitionId, "organizer");
   const { ruleset } = storedRuleset(competition);
   const crit = await criteriaOf(competition.id);
   return {
@@ -27,9 +28,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition, event } = await requireOrganizerCompetition(request, params.competitionId);
-  const formData = await request.formData();
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition, event } = await requireCompetitionRole(request, context, params.competitionId, "organizer");
+  const formData = await readForm(request);
   if (formData.get("intent") === "import") {
     const submission = parseWithZod(formData, { schema: importSchema });
     if (submission.status !== "success") return { form: "import" as const, result: submission.reply() };

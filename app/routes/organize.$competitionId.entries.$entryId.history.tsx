@@ -5,8 +5,8 @@ import type { Route } from "./+types/organize.$competitionId.entries.$entryId.hi
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Score history · ${data?.entry.title ?? "Entry"} · Gatecrash` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { c } = await requireJuryOrganizer(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { c } = await requireJuryOrganizer(request, context, params.competitionId);
   const h = await historyFor(c, params.entryId);
   if (!h) throw data({ message: "This entry is not in this compo." }, { status: 404 });
   return { competition: { id: c.id, title: c.title, timeZone: c.timeZone }, entry: h.entry, rows: h.rows };

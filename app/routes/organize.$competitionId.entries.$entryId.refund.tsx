@@ -1,22 +1,22 @@
 import { and, eq } from "drizzle-orm";
 import { data, Form, redirect } from "react-router";
-import { requireEventRole, requireUser } from "~/auth/guards.server";
+import type { RequestContext } from "~/auth/guards.server";
+import { requireCompetitionRole } from "~/competitions/access.server";
 import { db } from "~/db/client.server";
-import { competitions, crews, entries } from "~/db/schema";
+import { crews, entries } from "~/db/schema";
 import { paymentsOfEntry, refundEntryFee } from "~/payments/service.server";
 import { formatMoney } from "~/payments/states";
+import { safeRedirect } from "~/auth/redirect";
 import type { Route } from "./+types/organize.$competitionId.entries.$entryId.refund";
+import { readForm } from "~/api/body.server";
+import { isId } from "~/security/ids";
 
 export const meta: Route.MetaFunction = () => [{ title: "Refund entry fee · Gatecrash" }];
 
 /** The organizer of the competition's event only; an id from elsewhere is a 404 before anything else. */
-async function load(request: Request, competitionId: string, entryId: string) {
-  await requireUser(request);
-  const uuid = /^[0-9a-f-]{36}$/i;
-  const [c] = uuid.test(competitionId) ? await db().select().from(competitions).where(eq(competitions.id, competitionId)) : [];
-  if (!c) throw data({ message: "No such competition." }, { status: 404 });
-  const { user } = await requireEventRole(request, c.eventId, ["organizer"]);
-  const [row] = uuid.test(entryId)
+async function load(request: Request, context: RequestContext, competitionId: string, entryId: string) {
+  const { user, competition: c } = await requireCompetitionRole(request, context, competitionId, "organizer");
+  const [row] = isId(entryId)
     ? await db()
         .select({ entry: entries, crew: crews })
         .from(entries)
@@ -27,10 +27,13 @@ async function load(request: Request, competitionId: string, entryId: string) {
   return { user, competition: c, ...row };
 }
 
-const safeBack = (v: FormDataEntryValue | null) => (typeof v === "string" && v.startsWith("/organize/") ? v : null);
+const safeBack = (v: FormDataEntryValue | null) => {
+  const path = safeRedirect(v, null);
+  return path?.startsWith("/organize/") ? path : null;
+};
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition, entry, crew } = await load(request, params.competitionId, params.entryId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition, entry, crew } = await load(request, context, params.competitionId, params.entryId);
   const ps = await paymentsOfEntry(entry.id);
   return {
     competition: { id: competition.id, title: competition.title },
@@ -41,9 +44,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition, entry } = await load(request, params.competitionId, params.entryId);
-  const form = await request.formData();
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition, entry } = await load(request, context, params.competitionId, params.entryId);
+  const form = await readForm(request);
   const out = await refundEntryFee(competition.id, entry.id, user.id);
   if (!out.ok) return { error: out.message };
   return redirect(safeBack(form.get("redirectTo")) ?? `/organize/${competition.id}/entries/${entry.id}/refund?requested=1`);

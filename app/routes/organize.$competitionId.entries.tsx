@@ -1,6 +1,6 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Link, useActionData, useNavigation } from "react-router";
-import { requireOrganizerCompetition } from "~/competitions/access.server";
+import { requireCompetitionRole } from "~/competitions/access.server";
 import { disqualifyEntry, entriesTable } from "~/competitions/entries-admin.server";
 import { disqualifySchema } from "~/competitions/entries-forms";
 import { formatInZone } from "~/competitions/timezone";
@@ -8,11 +8,12 @@ import { EntriesTable, type EntryRowView } from "~/competitions/ui/EntriesTable"
 import { StateBadge } from "~/components/StateBadge";
 import { env } from "~/env.server";
 import type { Route } from "./+types/organize.$competitionId.entries";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Entries · ${data?.competition.title ?? "Compo"} · Gatecrash` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition, event } = await requireOrganizerCompetition(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition, event } = await requireCompetitionRole(request, context, params.competitionId, "organizer");
   const rows = await entriesTable(competition.id);
   const view: EntryRowView[] = rows.map((r) => ({
     id: r.id,
@@ -32,9 +33,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { competition: { id: competition.id, title: competition.title, state: competition.state }, event: { title: event.title }, rows: view };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition } = await requireOrganizerCompetition(request, params.competitionId);
-  const formData = await request.formData();
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition } = await requireCompetitionRole(request, context, params.competitionId, "organizer");
+  const formData = await readForm(request);
   const submission = parseWithZod(formData, { schema: disqualifySchema });
   const entryId = String(formData.get("entryId") ?? "");
   if (submission.status !== "success") return { entryId, result: submission.reply() };

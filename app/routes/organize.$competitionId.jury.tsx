@@ -10,11 +10,12 @@ import { inviteSchema, lockSchema, optionsSchema, organizerConflictSchema } from
 import { pageCall, requireJuryOrganizer } from "~/judging/http.server";
 import { declareConflict, inviteJudge, juryOverview, removeConflict, revokeInvite, setAssignment, setJudgingLocked, setJudgingOptions } from "~/judging/jury.server";
 import type { Route } from "./+types/organize.$competitionId.jury";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Jury · ${data?.competition.title ?? "Compo"} · Gatecrash` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { c } = await requireJuryOrganizer(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { c } = await requireJuryOrganizer(request, context, params.competitionId);
   return {
     competition: { id: c.id, title: c.title, state: c.state, eventTitle: c.eventTitle, blindJudging: c.blindJudging, orderMode: c.orderMode, locked: c.judgingLocked },
     jury: await juryOverview(c),
@@ -24,9 +25,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 const assignSchema = z.object({ intent: z.literal("assign"), judgeUserId: z.string().min(1), assigned: z.enum(["true", "false"]) });
 const idSchema = z.object({ intent: z.enum(["revoke", "remove-conflict"]), id: z.string().min(1) });
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, c } = await requireJuryOrganizer(request, params.competitionId);
-  const form = await request.formData();
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, c } = await requireJuryOrganizer(request, context, params.competitionId);
+  const form = await readForm(request);
   const intent = String(form.get("intent") ?? "");
   if (intent === "invite") {
     const s = parseWithZod(form, { schema: inviteSchema });

@@ -7,18 +7,19 @@ import { requireJuryOrganizer } from "~/judging/http.server";
 import { setJuryMethod } from "~/judging/jury.server";
 import { standingsFor } from "~/judging/standings.server";
 import type { Route } from "./+types/organize.$competitionId.standings";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Standings · ${data?.competition.title ?? "Compo"} · Gatecrash` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { c } = await requireJuryOrganizer(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { c } = await requireJuryOrganizer(request, context, params.competitionId);
   const view = await standingsFor(c);
   return { competition: { id: c.id, title: c.title, eventTitle: c.eventTitle, locked: c.judgingLocked }, view };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, c } = await requireJuryOrganizer(request, params.competitionId);
-  const s = parseWithZod(await request.formData(), { schema: methodSchema });
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, c } = await requireJuryOrganizer(request, context, params.competitionId);
+  const s = parseWithZod(await readForm(request), { schema: methodSchema });
   if (s.status !== "success") return s.reply();
   if (s.value.juryMethod !== c.juryMethod) await setJuryMethod(c, s.value.juryMethod, user.id);
   return s.reply();

@@ -1,17 +1,18 @@
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
-import { requireOrganizerCompetition } from "~/competitions/access.server";
+import { requireCompetitionRole } from "~/competitions/access.server";
 import { formatFee } from "~/competitions/forms";
 import { COMPETITION_STATES, TRANSITION_LABELS, TRANSITIONS, transitionProblem, uploadsStopAt } from "~/competitions/lifecycle";
 import { entryCounts, moveCompetition } from "~/competitions/service.server";
 import { formatInZone } from "~/competitions/timezone";
 import { StateBadge } from "~/components/StateBadge";
 import type { Route } from "./+types/organize.$competitionId";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.competition.title ?? "Compo"} · Organize · Gatecrash` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition: c, event } = await requireOrganizerCompetition(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition: c, event } = await requireCompetitionRole(request, context, params.competitionId, "organizer");
   const now = new Date();
   const moves = TRANSITIONS[c.state]
     .filter((to) => to !== "results")
@@ -39,9 +40,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const moveSchema = z.object({ intent: z.literal("move"), to: z.enum(COMPETITION_STATES) });
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition } = await requireOrganizerCompetition(request, params.competitionId);
-  const parsed = moveSchema.safeParse(Object.fromEntries(await request.formData()));
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition } = await requireCompetitionRole(request, context, params.competitionId, "organizer");
+  const parsed = moveSchema.safeParse(Object.fromEntries(await readForm(request)));
   if (!parsed.success) return data({ error: "Pick one of the offered moves." }, { status: 400 });
   const moved = await moveCompetition(user.id, competition, parsed.data.to);
   if (!moved.ok) return data({ error: moved.error }, { status: 409 });

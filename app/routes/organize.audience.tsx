@@ -8,18 +8,19 @@ import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
 import { codeSheetSchema } from "~/voting/forms";
 import { generateVoteCodes, liveCount } from "~/voting/voting.server";
 import type { Route } from "./+types/organize.audience";
+import { readForm } from "~/api/body.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition: c } = await requireCompetitionOrganizer(request, context, params.competitionId);
   return {
     competition: { id: c.id, title: c.title, eventTitle: c.eventTitle, eventSlug: c.eventSlug, slug: c.slug, method: c.ballotMethod, opensAt: c.votingOpensAt, closesAt: c.votingClosesAt, timeZone: c.timeZone },
     count: await liveCount(c.id),
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
-  const submission = parseWithZod(await request.formData(), { schema: codeSheetSchema });
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition: c } = await requireCompetitionOrganizer(request, context, params.competitionId);
+  const submission = parseWithZod(await readForm(request), { schema: codeSheetSchema });
   if (submission.status !== "success") return { result: submission.reply(), made: 0 };
   const codes = await generateVoteCodes(c.id, submission.value.count);
   await audit({ actorUserId: user.id, eventId: c.eventId, action: "vote-codes.generated", subjectType: "competition", subjectId: c.id, details: { count: codes.length } });

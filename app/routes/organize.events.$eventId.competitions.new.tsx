@@ -1,16 +1,17 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { redirect, useActionData, useNavigation } from "react-router";
 import { DEMO_RULESET } from "~/rules/ruleset";
-import { requireOrganizerEvent } from "~/competitions/access.server";
+import { requireEventRole } from "~/competitions/access.server";
 import { competitionFormSchema, competitionToForm, competitionValues } from "~/competitions/forms";
 import { createCompetition } from "~/competitions/service.server";
 import { CompetitionForm } from "~/competitions/ui/CompetitionForm";
 import type { Route } from "./+types/organize.events.$eventId.competitions.new";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New compo · Gatecrash" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { event } = await requireOrganizerEvent(request, params.eventId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { event } = await requireEventRole(request, context, params.eventId, "organizer");
   const defaults = competitionToForm(
     {
       title: "",
@@ -33,9 +34,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { event: { id: event.id, title: event.title, timeZone: event.timeZone }, defaults };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, event } = await requireOrganizerEvent(request, params.eventId);
-  const submission = parseWithZod(await request.formData(), { schema: competitionFormSchema(event.timeZone) });
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, event } = await requireEventRole(request, context, params.eventId, "organizer");
+  const submission = parseWithZod(await readForm(request), { schema: competitionFormSchema(event.timeZone) });
   if (submission.status !== "success") return submission.reply();
   const saved = await createCompetition(user.id, event.id, competitionValues(submission.value, event.timeZone));
   if (!saved.ok) return submission.reply({ fieldErrors: saved.fieldErrors, formErrors: saved.formErrors });

@@ -2,7 +2,8 @@ import { getFormProps, getInputProps, useForm } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
 import { Form, Link, useNavigation } from "react-router";
 import { audit } from "~/audit/log.server";
-import { requireOrganizerEvent } from "~/competitions/access.server";
+import { readForm } from "~/api/body.server";
+import { requireEventRole } from "~/competitions/access.server";
 import { FormErrors } from "~/components/FormField";
 import { partyFormSchema, partyCodesSchema } from "~/party/forms";
 import { AwardError, awardCandidates, awardsOfEvent, createAward, deleteAward, updateAward } from "~/results/awards.server";
@@ -10,8 +11,8 @@ import { CodeBookError, issueVoteCodes, partyCodes, unused, votableCompos } from
 import type { Route } from "./+types/organize.events.$eventId.party";
 
 /** The organizer's party desk: party-wide vote codes, awards, and the after-party archive and shuttle export. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { event } = await requireOrganizerEvent(request, params.eventId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { event } = await requireEventRole(request, context, params.eventId, "organizer");
   const codes = await partyCodes(event.id);
   return {
     event: { id: event.id, slug: event.slug, title: event.title },
@@ -22,9 +23,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, event } = await requireOrganizerEvent(request, params.eventId);
-  const submission = parseWithZod(await request.formData(), { schema: partyFormSchema });
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, event } = await requireEventRole(request, context, params.eventId, "organizer");
+  const submission = parseWithZod(await readForm(request), { schema: partyFormSchema });
   if (submission.status !== "success") return { result: submission.reply(), done: null };
   const v = submission.value;
   try {

@@ -1,17 +1,18 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { Link, useActionData, useNavigation } from "react-router";
-import { requireOrganizerEvent } from "~/competitions/access.server";
+import { requireEventRole } from "~/competitions/access.server";
 import { eventFormSchema } from "~/competitions/forms";
 import { competitionsOfEvent, updateEvent } from "~/competitions/service.server";
 import { formatInZone, timeZoneNames, utcToZonedWallTime } from "~/competitions/timezone";
 import { EventForm } from "~/competitions/ui/EventForm";
 import { StateBadge } from "~/components/StateBadge";
 import type { Route } from "./+types/organize.events.$eventId";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.event.title ?? "Event"} · Organize · Gatecrash` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { event } = await requireOrganizerEvent(request, params.eventId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { event } = await requireEventRole(request, context, params.eventId, "organizer");
   const comps = await competitionsOfEvent(event.id);
   const wall = (d: Date | null) => (d ? utcToZonedWallTime(d, event.timeZone) : "");
   return {
@@ -30,9 +31,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, event } = await requireOrganizerEvent(request, params.eventId);
-  const submission = parseWithZod(await request.formData(), { schema: eventFormSchema });
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, event } = await requireEventRole(request, context, params.eventId, "organizer");
+  const submission = parseWithZod(await readForm(request), { schema: eventFormSchema });
   if (submission.status !== "success") return submission.reply();
   const saved = await updateEvent(user.id, event.id, submission.value);
   if (!saved.ok) return submission.reply({ fieldErrors: saved.fieldErrors });

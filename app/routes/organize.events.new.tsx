@@ -6,17 +6,18 @@ import { createEvent } from "~/competitions/service.server";
 import { timeZoneNames } from "~/competitions/timezone";
 import { EventForm } from "~/competitions/ui/EventForm";
 import type { Route } from "./+types/organize.events.new";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New event · Gatecrash" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireUser(request, context);
   return { timeZones: timeZoneNames() };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request);
-  const submission = parseWithZod(await request.formData(), { schema: eventFormSchema });
+export async function action({ request, context }: Route.ActionArgs) {
+  const user = await requireUser(request, context);
+  const submission = parseWithZod(await readForm(request), { schema: eventFormSchema });
   if (submission.status !== "success") return submission.reply();
   const saved = await createEvent(user.id, submission.value);
   if (!saved.ok) return submission.reply({ fieldErrors: saved.fieldErrors });

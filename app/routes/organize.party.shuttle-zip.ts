@@ -2,12 +2,12 @@ import { data } from "react-router";
 import { audit } from "~/audit/log.server";
 import { ShuttleError, shuttleExport } from "~/archive/shuttle.server";
 import { ArchiveIntegrityError, zipResponse } from "~/archive/zip-stream.server";
-import { requireOrganizerEvent } from "~/competitions/access.server";
+import { requireEventRole } from "~/competitions/access.server";
 import type { Route } from "./+types/organize.party.shuttle-zip";
 
 /** The chosen entries' layouts and the shuttle manifest as a zip: …/shuttle.zip?entry=ID&entry=ID. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { user, event } = await requireOrganizerEvent(request, params.eventId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { user, event } = await requireEventRole(request, context, params.eventId, "organizer");
   const ids = new URL(request.url).searchParams.getAll("entry");
   try {
     await audit({ actorUserId: user.id, eventId: event.id, action: "shuttle.requested", subjectType: "event", subjectId: event.id, details: { entryIds: ids } });

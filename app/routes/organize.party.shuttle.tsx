@@ -1,11 +1,11 @@
 import { Link } from "react-router";
 import { shuttleCandidates } from "~/archive/shuttle.server";
-import { requireOrganizerEvent } from "~/competitions/access.server";
+import { requireEventRole } from "~/competitions/access.server";
 import type { Route } from "./+types/organize.party.shuttle";
 
 /** Choose the passing entries that go on the shuttle; the form downloads their layouts and the manifest as one zip. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { event } = await requireOrganizerEvent(request, params.eventId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { event } = await requireEventRole(request, context, params.eventId, "organizer");
   const list = await shuttleCandidates(event.id);
   return {
     event: { id: event.id, title: event.title },

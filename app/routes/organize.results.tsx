@@ -9,9 +9,10 @@ import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
 import { publishSchema } from "~/voting/forms";
 import { windowStatus } from "~/voting/voting.server";
 import type { Route } from "./+types/organize.results";
+import { readForm } from "~/api/body.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition: c } = await requireCompetitionOrganizer(request, context, params.competitionId);
   const preview = await computeStandings(c.id);
   return {
     competition: { id: c.id, title: c.title, eventTitle: c.eventTitle, eventSlug: c.eventSlug, slug: c.slug, state: c.state },
@@ -21,9 +22,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { user, competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
-  const submission = parseWithZod(await request.formData(), { schema: publishSchema });
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { user, competition: c } = await requireCompetitionOrganizer(request, context, params.competitionId);
+  const submission = parseWithZod(await readForm(request), { schema: publishSchema });
   if (submission.status !== "success") return { result: submission.reply(), published: null };
   try {
     const p = await publishResults(c.id, user.id, submission.value.note ?? "");

@@ -8,8 +8,8 @@ import type { Route } from "./+types/organize";
 
 export const meta: Route.MetaFunction = () => [{ title: "Organize · Gatecrash" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const user = await requireUser(request, context);
   const roles = await roleSummary(user);
   if (roles.organizerOf.length === 0 && !roles.isAdmin) forbidden("Only organizers of an event can open this page. Announce an event to become its organizer.");
   const ids = roles.organizerOf.map((e) => e.id);

@@ -5,6 +5,7 @@ import { resetSchema } from "~/auth/forms";
 import { callAuth } from "~/auth/forward.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import type { Route } from "./+types/reset-password";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Choose a new password · Gatecrash" }];
 
@@ -12,10 +13,10 @@ export async function loader(_: Route.LoaderArgs) {
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const submission = parseWithZod(await request.formData(), { schema: resetSchema });
+export async function action({ request, context }: Route.ActionArgs) {
+  const submission = parseWithZod(await readForm(request), { schema: resetSchema });
   if (submission.status !== "success") return { result: submission.reply({ hideFields: ["password"] }), done: false };
-  const res = await callAuth(request, "/reset-password", { token: submission.value.token, newPassword: submission.value.password });
+  const res = await callAuth(request, context, "/reset-password", { token: submission.value.token, newPassword: submission.value.password });
   if (res.status !== 200)
     return { result: submission.reply({ formErrors: ["This link has expired or was used already. Ask for a new one."], hideFields: ["password"] }), done: false };
   return { result: submission.reply(), done: true };

@@ -1,25 +1,38 @@
 import { getFormProps, getInputProps, useForm } from "@conform-to/react";
 import { parseWithZod } from "@conform-to/zod/v4";
-import { Form, Link, redirect, useActionData, useNavigation, useSearchParams } from "react-router";
+import { data, Form, Link, redirect, useActionData, useNavigation, useSearchParams } from "react-router";
 import { signInSchema } from "~/auth/forms";
-import { callAuth, cookieHeaders, safeNext } from "~/auth/forward.server";
+import { callAuth, clientAddress, cookieHeaders } from "~/auth/forward.server";
+import { clearSignInFailures, recordSignInFailure, signInBlocked } from "~/auth/sign-in-limit.server";
+import { safeRedirect } from "~/auth/redirect";
 import { getSession } from "~/auth/guards.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import type { Route } from "./+types/sign-in";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Gatecrash" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  if (await getSession(request)) throw redirect(safeNext(new URL(request.url).searchParams.get("next")));
+export async function loader({ request, context }: Route.LoaderArgs) {
+  if (await getSession(context)) throw redirect(safeRedirect(new URL(request.url).searchParams.get("next"), "/"));
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const submission = parseWithZod(await request.formData(), { schema: signInSchema });
+export async function action({ request, context }: Route.ActionArgs) {
+  const submission = parseWithZod(await readForm(request), { schema: signInSchema });
   if (submission.status !== "success") return submission.reply({ hideFields: ["password"] });
   const { email, password, next } = submission.value;
-  const res = await callAuth(request, "/sign-in/email", { email, password });
-  if (res.status === 200) return redirect(safeNext(next), { headers: cookieHeaders(res) });
+  const from = clientAddress(context);
+  const wait = await signInBlocked(email, from);
+  if (wait !== null) {
+    const reply = submission.reply({ formErrors: [`Too many failed sign-ins for this account from here. Try again in ${Math.ceil(wait / 60)} min, or reset your password.`], hideFields: ["password"] });
+    return data(reply, { status: 429, headers: { "Retry-After": String(wait) } });
+  }
+  const res = await callAuth(request, context, "/sign-in/email", { email, password });
+  if (res.status === 200) {
+    await clearSignInFailures(email, from);
+    return redirect(safeRedirect(next, "/"), { headers: cookieHeaders(res) });
+  }
+  if (res.status === 401) await recordSignInFailure(email, from);
   const message =
     res.status === 429
       ? "Too many sign-in attempts. Wait a minute and try again."

@@ -6,7 +6,7 @@ export async function loader() {
   return redirect("/");
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const res = await callAuth(request, "/sign-out", {});
+export async function action({ request, context }: Route.ActionArgs) {
+  const res = await callAuth(request, context, "/sign-out", {});
   return redirect("/", { headers: cookieHeaders(res) });
 }

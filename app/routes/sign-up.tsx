@@ -5,6 +5,7 @@ import { signUpSchema } from "~/auth/forms";
 import { callAuth } from "~/auth/forward.server";
 import { FormErrors, FormField } from "~/components/FormField";
 import type { Route } from "./+types/sign-up";
+import { readForm } from "~/api/body.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Create an account · Gatecrash" }];
 
@@ -12,11 +13,11 @@ export async function loader(_: Route.LoaderArgs) {
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const submission = parseWithZod(await request.formData(), { schema: signUpSchema });
+export async function action({ request, context }: Route.ActionArgs) {
+  const submission = parseWithZod(await readForm(request), { schema: signUpSchema });
   if (submission.status !== "success") return submission.reply();
   const { name, email, password } = submission.value;
-  const res = await callAuth(request, "/sign-up/email", { name, email, password, callbackURL: "/welcome" });
+  const res = await callAuth(request, context, "/sign-up/email", { name, email, password, callbackURL: "/welcome" });
   if (res.status === 429) return submission.reply({ formErrors: ["Too many attempts from here. Wait a minute and try again."] });
   if (res.status >= 400) {
     const exists = res.body?.code === "USER_ALREADY_EXISTS" || res.body?.code === "USER_ALREADY_EXISTS_USE_ANOTHER_EMAIL";

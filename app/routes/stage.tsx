@@ -3,8 +3,8 @@ import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
 import { stageScreens } from "~/stage/stage.server";
 import type { Route } from "./+types/stage";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { competition: c } = await requireCompetitionOrganizer(request, params.competitionId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { competition: c } = await requireCompetitionOrganizer(request, context, params.competitionId);
   return { title: c.title, competitionId: c.id, screens: await stageScreens(c) };
 }
 

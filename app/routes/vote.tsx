@@ -9,6 +9,7 @@ import { ballotFromForm, voteFormSchema } from "~/voting/forms";
 import { resolveVoter } from "~/voting/page.server";
 import { castBallot, codeHolderCookie, currentBallot, VoteError, windowStatus, type Voter } from "~/voting/voting.server";
 import type { Route } from "./+types/vote";
+import { readForm } from "~/api/body.server";
 
 async function requireVotePage(params: { eventSlug?: string; competitionSlug?: string }) {
   const c = params.eventSlug && params.competitionSlug ? await competitionBySlugs(params.eventSlug, params.competitionSlug) : null;
@@ -16,11 +17,11 @@ async function requireVotePage(params: { eventSlug?: string; competitionSlug?: s
   return c;
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, params, context }: Route.LoaderArgs) {
   const c = await requireVotePage(params);
   const now = new Date();
   const status = windowStatus(c, now);
-  const { voter, state } = await resolveVoter(request, c.id);
+  const { voter, state } = await resolveVoter(request, context, c.id);
   const ballot = voter ? await currentBallot(c.id, voter) : null;
   const list = status === "open" ? await showcaseEntries(c) : [];
   return {
@@ -32,11 +33,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, params, context }: Route.ActionArgs) {
   const c = await requireVotePage(params);
-  const submission = parseWithZod(await request.formData(), { schema: voteFormSchema });
+  const submission = parseWithZod(await readForm(request), { schema: voteFormSchema });
   if (submission.status !== "success") return { result: submission.reply(), saved: null };
-  const { voter, state } = await resolveVoter(request, c.id);
+  const { voter, state } = await resolveVoter(request, context, c.id);
   let who: Voter;
   if (voter) who = voter;
   else if (submission.value.code) who = { kind: "new-code", code: submission.value.code };

@@ -4,8 +4,8 @@ import type { Route } from "./+types/welcome";
 
 export const meta: Route.MetaFunction = () => [{ title: "Welcome · Gatecrash" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const user = await requireUser(request, context);
   return { name: user.name, verified: user.emailVerified };
 }
 

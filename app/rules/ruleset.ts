@@ -1,3 +1,4 @@
+import { RE2JS } from "re2js";
 import { z } from "zod";
 
 /**
@@ -156,6 +157,28 @@ export function pinsByRole(ruleset: Ruleset, role: PinRole): Pin[] {
   return ruleset.pins.filter((p) => p.role === role);
 }
 
-export function compileCellPattern(pattern: string): RegExp {
-  return new RegExp(pattern, "i");
+/**
+ * Organizer-written cell-name patterns (flip-flop pattern, forbidden cells) run against entrant-chosen cell names,
+ * so they are compiled with RE2's linear-time engine (re2js): matching takes time proportional to the name, never
+ * exponential. RE2 syntax is the common subset of regular expressions without lookaround or back-references.
+ * Case-insensitive; a pattern matches anywhere in the name unless anchored.
+ */
+export interface CellPattern {
+  test(name: string): boolean;
+}
+
+export function compileCellPattern(pattern: string): CellPattern {
+  const re = RE2JS.compile(pattern, RE2JS.CASE_INSENSITIVE);
+  return { test: (name) => re.test(name) };
+}
+
+/** Why `pattern` cannot be a cell-name pattern (RE2's own message), or null when it compiles. */
+export function patternProblem(pattern: string): string | null {
+  try {
+    RE2JS.compile(pattern, RE2JS.CASE_INSENSITIVE);
+    return null;
+  } catch (e) {
+    if (e instanceof Error && e.name.startsWith("RE2JS")) return `${e.message.replace(/^error parsing regexp: /, "")} (patterns use RE2 syntax: no lookahead or back-references)`;
+    throw e;
+  }
 }

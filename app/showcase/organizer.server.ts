@@ -1,11 +1,12 @@
-import { data } from "react-router";
-import { requireEventRole, type SessionUser } from "~/auth/guards.server";
-import { competitionById, type PublicCompetition } from "./showcase.server";
+import type { RequestContext, SessionUser } from "~/auth/guards.server";
+import { requireCompetitionRole } from "~/competitions/access.server";
+import { publicView, type PublicCompetition } from "./showcase.server";
 
-/** Organizer pages of one competition (audience, results, stage): the event's organizers and platform admins only. */
-export async function requireCompetitionOrganizer(request: Request, competitionId: string | undefined): Promise<{ user: SessionUser; competition: PublicCompetition }> {
-  const c = competitionId ? await competitionById(competitionId) : null;
-  if (!c) throw data({ message: "There is no such competition." }, { status: 404 });
-  const { user } = await requireEventRole(request, c.eventId, ["organizer"]);
-  return { user, competition: c };
+/**
+ * Organizer pages of one competition (audience, results, stage): the permission check comes first (404 for anyone
+ * who does not organize it, admins excepted), and only then the competition in the showcase's shape.
+ */
+export async function requireCompetitionOrganizer(request: Request, context: RequestContext, competitionId: string | undefined): Promise<{ user: SessionUser; competition: PublicCompetition }> {
+  const { user, competition, event } = await requireCompetitionRole(request, context, competitionId, "organizer");
+  return { user, competition: publicView(competition, event) };
 }

@@ -3,6 +3,7 @@ import { and, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { artifacts, checkRuns, competitions, crews, entries, events, uploadFiles, uploads } from "~/db/schema";
 import { flashSummary, publicStats, type FlashSummary, type PublicStats } from "./figures";
+import { isId } from "~/security/ids";
 
 /**
  * The public showcase: what anyone may see of a competition's entries once entries have closed.
@@ -61,7 +62,7 @@ export interface ShowcaseEntry {
 
 type CompetitionRow = typeof competitions.$inferSelect;
 
-function toPublic(c: CompetitionRow, e: typeof events.$inferSelect): PublicCompetition {
+export function publicView(c: CompetitionRow, e: typeof events.$inferSelect): PublicCompetition {
   return {
     id: c.id,
     eventId: e.id,
@@ -88,22 +89,20 @@ export async function competitionBySlugs(eventSlug: string, competitionSlug: str
     .innerJoin(events, eq(events.id, competitions.eventId))
     .where(and(eq(events.slug, eventSlug), eq(competitions.slug, competitionSlug)));
   if (!row || row.c.state === "draft") return null;
-  return toPublic(row.c, row.e);
+  return publicView(row.c, row.e);
 }
 
 export async function competitionById(competitionId: string): Promise<PublicCompetition | null> {
-  if (!isUuid(competitionId)) return null;
+  if (!isId(competitionId)) return null;
   const [row] = await db()
     .select({ c: competitions, e: events })
     .from(competitions)
     .innerJoin(events, eq(events.id, competitions.eventId))
     .where(eq(competitions.id, competitionId));
-  return row ? toPublic(row.c, row.e) : null;
+  return row ? publicView(row.c, row.e) : null;
 }
 
-export function isUuid(s: string | undefined): s is string {
-  return typeof s === "string" && /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
-}
+export { isId as isUuid };
 
 export function showcaseIsOpen(c: Pick<PublicCompetition, "state">): boolean {
   return (SHOWCASE_STATES as readonly string[]).includes(c.state);

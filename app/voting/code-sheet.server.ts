@@ -1,5 +1,5 @@
 import QRCode from "qrcode";
-import { toCsv } from "~/party/csv";
+import { toCsv } from "~/security/csv";
 import type { CodeLine } from "./code-book.server";
 
 const esc = (s: string) => s.replace(/[&<>"']/g, (ch) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[ch] as string);

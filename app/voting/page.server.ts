@@ -1,4 +1,4 @@
-import { getSession } from "~/auth/guards.server";
+import { getSession, type RequestContext } from "~/auth/guards.server";
 import { codeHolderFromCookie, type Voter } from "./voting.server";
 
 export type VoterState =
@@ -10,8 +10,8 @@ export type VoterState =
  * Who is at the vote page: a signed-in account (verified or not), a browser that holds a redeemed vote code,
  * or someone who still has to type a code. A signed-in account wins over a code cookie.
  */
-export async function resolveVoter(request: Request, competitionId: string): Promise<{ voter: Exclude<Voter, { kind: "new-code" }> | null; state: VoterState }> {
-  const session = await getSession(request);
+export async function resolveVoter(request: Request, context: RequestContext, competitionId: string): Promise<{ voter: Exclude<Voter, { kind: "new-code" }> | null; state: VoterState }> {
+  const session = getSession(context);
   if (session) {
     return {
       voter: { kind: "user", userId: session.user.id, emailVerified: session.user.emailVerified },

@@ -1,10 +1,11 @@
 import { sql } from "drizzle-orm";
-import { db } from "~/db/client.server";
+import { db, type Executor } from "~/db/client.server";
 import { rateLimit } from "~/db/schema";
 
 /**
  * A fixed-window counter in PostgreSQL (the rate_limit table better-auth also uses; Gatecrash's keys start with
- * "gc:" so they never meet better-auth's). Works across any number of stateless web processes.
+ * "gc:" so they never meet better-auth's). Works across any number of stateless web processes. Inside a transaction,
+ * pass its handle as `ex` — but a hit that must count even when the transaction rolls back belongs after it.
  */
 export interface RateLimitHit {
   allowed: boolean;
@@ -13,12 +14,12 @@ export interface RateLimitHit {
   retryAfterSeconds: number;
 }
 
-export async function hitRateLimit(key: string, max: number, windowSeconds: number, now = new Date()): Promise<RateLimitHit> {
+export async function hitRateLimit(key: string, max: number, windowSeconds: number, now = new Date(), ex: Executor = db()): Promise<RateLimitHit> {
   const nowMs = now.getTime();
   const windowStart = nowMs - windowSeconds * 1000;
   const fullKey = `gc:${key}`;
   // One statement: a new window starts when the stored one began before windowStart.
-  const [row] = await db()
+  const [row] = await ex
     .insert(rateLimit)
     .values({ id: crypto.randomUUID(), key: fullKey, count: 1, lastRequest: nowMs })
     .onConflictDoUpdate({

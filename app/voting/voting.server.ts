@@ -7,6 +7,7 @@ import { eligibleEntries } from "~/showcase/showcase.server";
 import { codeCounts, codesOfCompetition, issueVoteCodes, redeemCode, redeemedAtIn } from "./code-book.server";
 import { codeHolderToken, normaliseCode, readCodeHolderToken, tokenMatches } from "./codes";
 import { hitRateLimit } from "./rate-limit.server";
+import { isId } from "~/security/ids";
 
 /**
  * The audience vote. Rules (also shown on the vote page):
@@ -100,7 +101,7 @@ export async function codeHolderFromCookie(competitionId: string, cookieHeader: 
   if (!raw) return null;
   const token = decodeURIComponent(raw);
   const parsed = readCodeHolderToken(token);
-  if (!parsed || !/^[0-9a-f-]{36}$/.test(parsed.codeId)) return null;
+  if (!parsed || !isId(parsed.codeId)) return null;
   const redeemedAt = await redeemedAtIn(parsed.codeId, competitionId);
   if (!redeemedAt) return null;
   return tokenMatches(env().BETTER_AUTH_SECRET, token, parsed.codeId, competitionId, redeemedAt) ? parsed.codeId : null;
@@ -158,7 +159,8 @@ export async function castBallot(opts: { competitionId: string; voter: Voter; co
       throw new VoteError("rate_limited", 429, `Too many ballots in a short time. Try again in ${hit.retryAfterSeconds} s; your last ballot stands.`, [], hit.retryAfterSeconds);
   }
 
-  return db().transaction(async (tx) => {
+  type Cast = { ballotId: string; replaced: boolean; content: BallotContent; holderToken?: string } | { refused: "used" | "unknown" };
+  const cast = await db().transaction(async (tx): Promise<Cast> => {
     let voterUserId: string | null = null;
     let voteCodeId: string | null = null;
     let holderToken: string | undefined;
@@ -166,12 +168,8 @@ export async function castBallot(opts: { competitionId: string; voter: Voter; co
     else if (v.kind === "code") voteCodeId = v.codeId;
     else {
       const redeemed = await redeemCode(tx, c.id, normalisedCode!, now);
-      if (redeemed.kind !== "redeemed") {
-        const hit = await hitRateLimit(`code-attempts:${c.id}`, CODE_ATTEMPT_LIMIT, CODE_ATTEMPT_WINDOW_S, now);
-        if (!hit.allowed) throw new VoteError("rate_limited", 429, `Too many wrong codes here just now. Try again in ${hit.retryAfterSeconds} s.`, [], hit.retryAfterSeconds);
-        if (redeemed.kind === "used") throw new VoteError("code_used", 409, "This vote code has already been used in this compo. Each code makes one ballot per compo, changeable only from the browser that used it.");
-        throw new VoteError("code_unknown", 404, "This vote code does not vote in this compo. Check the letters on your slip, and the compos printed on it.");
-      }
+      // Refused after the transaction: the failed attempt must count even though nothing here is kept.
+      if (redeemed.kind !== "redeemed") return { refused: redeemed.kind };
       voteCodeId = redeemed.codeId;
       holderToken = codeHolderToken(env().BETTER_AUTH_SECRET, redeemed.codeId, c.id, redeemed.redeemedAt);
     }
@@ -196,6 +194,16 @@ export async function castBallot(opts: { competitionId: string; voter: Voter; co
     await tx.insert(ballotHistory).values({ ballotId, content, changedAt: now });
     return { ballotId, replaced: Boolean(existing), content, holderToken };
   });
+  if (!("refused" in cast)) return cast;
+  return refuseCode(c.id, cast.refused, now);
+}
+
+/** A code that redeemed nothing: counted against the competition's guessing limit, then told apart (used or unknown). */
+async function refuseCode(competitionId: string, refused: "used" | "unknown", now: Date): Promise<never> {
+  const hit = await hitRateLimit(`code-attempts:${competitionId}`, CODE_ATTEMPT_LIMIT, CODE_ATTEMPT_WINDOW_S, now);
+  if (!hit.allowed) throw new VoteError("rate_limited", 429, `Too many wrong codes here just now. Try again in ${hit.retryAfterSeconds} s.`, [], hit.retryAfterSeconds);
+  if (refused === "used") throw new VoteError("code_used", 409, "This vote code has already been used in this compo. Each code makes one ballot per compo, changeable only from the browser that used it.");
+  throw new VoteError("code_unknown", 404, "This vote code does not vote in this compo. Check the letters on your slip, and the compos printed on it.");
 }
 
 export async function currentBallot(competitionId: string, voter: Exclude<Voter, { kind: "new-code" }>) {

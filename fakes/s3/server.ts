@@ -1,5 +1,6 @@
 import S3rver from "s3rver";
 import { mkdirSync } from "node:fs";
+import { createRequire } from "node:module";
 
 /**
  * The local stand-in for S3 (s3rver, a registry package). The bucket gets a CORS rule so that browsers can PUT
@@ -22,10 +23,22 @@ export interface S3FakeOptions {
   port: number;
   directory: string;
   bucket: string;
+  /** Access keys to accept instead of s3rver's built-in S3RVER/S3RVER pair (a stack's own secrets). */
+  keys?: { accessKeyId: string; secretAccessKey: string };
+}
+
+/** s3rver keeps its key pairs in one registry on its dummy account; a stack with its own keys swaps them in. */
+function useKeys(keys: NonNullable<S3FakeOptions["keys"]>): void {
+  const { DUMMY_ACCOUNT } = createRequire(import.meta.url)("s3rver/lib/models/account") as {
+    DUMMY_ACCOUNT: { createKeyPair(id: string, secret: string): void; revokeAccessKey(id: string): void };
+  };
+  DUMMY_ACCOUNT.createKeyPair(keys.accessKeyId, keys.secretAccessKey);
+  if (keys.accessKeyId !== "S3RVER") DUMMY_ACCOUNT.revokeAccessKey("S3RVER");
 }
 
 export async function startS3Fake(opts: S3FakeOptions): Promise<{ close(): Promise<void> }> {
   mkdirSync(opts.directory, { recursive: true });
+  if (opts.keys) useKeys(opts.keys);
   const server = new S3rver({
     port: opts.port,
     address: "127.0.0.1",
@@ -42,6 +55,7 @@ if (isMain) {
   const port = Number(process.env.S3_FAKE_PORT ?? 4569);
   const directory = process.env.S3_FAKE_DIR ?? ".gatecrash/s3";
   const bucket = process.env.S3_BUCKET ?? "gatecrash";
-  await startS3Fake({ port, directory, bucket });
+  const keys = process.env.S3_ACCESS_KEY_ID && process.env.S3_SECRET_ACCESS_KEY ? { accessKeyId: process.env.S3_ACCESS_KEY_ID, secretAccessKey: process.env.S3_SECRET_ACCESS_KEY } : undefined;
+  await startS3Fake({ port, directory, bucket, keys });
   console.log(`S3 fake on http://127.0.0.1:${port} (bucket ${bucket}, data in ${directory})`);
 }

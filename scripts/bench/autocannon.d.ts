@@ -32,6 +32,8 @@ declare module "autocannon" {
       duration?: number;
       amount?: number;
       maxConnectionRequests?: number;
+      /** Seconds before a request counts as timed out (autocannon default: 10). */
+      timeout?: number;
       headers?: Record<string, string>;
       requests?: RequestSpec[];
     }

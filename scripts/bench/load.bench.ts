@@ -9,7 +9,9 @@ import autocannon from "autocannon";
 import { clusterFor, createDatabase, initCluster, startCluster, stopCluster } from "../lib/postgres";
 import { applyMigrations } from "../lib/migrate";
 import { freePort } from "../lib/ports";
+import { localSecrets } from "../lib/secrets";
 import { appEnv, startStack } from "../lib/stack";
+import { describe, fireAll, judgesAutosave, type TimedRequest } from "./mixed-burst";
 
 type Result = autocannon.Result;
 
@@ -60,7 +62,7 @@ export async function benchLoad(): Promise<void> {
     // The server build resolves its packages from node_modules, so it lives inside the repository.
     const buildDir = resolve(".gatecrash", `load-build-${process.pid}`);
     cleanups.push(() => rmSync(buildDir, { recursive: true, force: true }));
-    const env: NodeJS.ProcessEnv = { ...appEnv(ports, databaseUrl, join(root, "data")), NODE_ENV: "production", GATECRASH_BUILD_DIR: buildDir };
+    const env: NodeJS.ProcessEnv = { ...appEnv(ports, databaseUrl, join(root, "data")), ...localSecrets(), NODE_ENV: "production", GATECRASH_BUILD_DIR: buildDir };
     const built = spawnSync(process.execPath, ["node_modules/@react-router/dev/bin.js", "build"], { env, stdio: "ignore" });
     if (built.status !== 0) throw new Error("build failed");
     stack = await startStack({ ports, dataDir: join(root, "data"), env, services: ["s3", "web"], quiet: true });
@@ -127,6 +129,8 @@ export async function benchLoad(): Promise<void> {
       url: `${base}/api/ballots/${compo.competitionId}`,
       connections: 100,
       amount: BALLOTS,
+      // A ballot that waits its turn is still answered (200, or 503 with Retry-After); only a hang should time out.
+      timeout: 60,
       headers: { "content-type": "application/json", origin },
       requests: [
         {
@@ -165,7 +169,9 @@ export async function benchLoad(): Promise<void> {
     const expectedScores = saves.length;
     console.log(`scores: ${okScores} saves answered 2xx of ${expectedScores} sent; ${scoreRows} rows, ${distinctCells} distinct cells → ${scoreRows === okScores && distinctCells === scoreRows ? "none lost or duplicated" : "MISMATCH"}`);
     console.log(`ballots: ${okBallots} answered 2xx of ${BALLOTS}; ${ballotRows} rows, ${codesUsed} distinct codes → ${ballotRows === okBallots && codesUsed === ballotRows ? "none lost or duplicated" : "MISMATCH"}`);
+    const mixedOk = await mixedBurst({ base, makeCompo, makeUser, grantEventRole, sessionCookie, generateVoteCodes, db, schema, sql });
     await closeDb();
+    if (!mixedOk) process.exitCode = 1;
     if (scoreRows !== okScores || distinctCells !== scoreRows || ballotRows !== okBallots || codesUsed !== ballotRows) process.exitCode = 1;
   } finally {
     await stack?.stop();
@@ -173,6 +179,92 @@ export async function benchLoad(): Promise<void> {
     rmSync(root, { recursive: true, force: true });
     for (const c of cleanups) c();
   }
+}
+
+/**
+ * 500 mixed ballot requests at once (200 fresh codes, 50 of those codes again from other browsers, 100 wrong codes,
+ * 100 verified accounts of which 50 cast twice) while 50 judges autosave 20 cells each; the same number of bare-page
+ * requests at once is the reference. Afterwards: a page in under a second, and exactly one ballot per code and per
+ * account in the database. Returns whether all of that held.
+ */
+async function mixedBurst(x: {
+  base: string;
+  makeCompo: typeof import("../../tests/integration/showcase.fixtures").makeCompo;
+  makeUser: typeof import("../../tests/support/users").makeUser;
+  grantEventRole: typeof import("../../tests/support/users").grantEventRole;
+  sessionCookie: typeof import("../../tests/support/users").sessionCookie;
+  generateVoteCodes: typeof import("../../app/voting/voting.server").generateVoteCodes;
+  db: typeof import("../../app/db/client.server").db;
+  schema: typeof import("../../app/db/schema");
+  sql: typeof import("drizzle-orm").sql;
+}): Promise<boolean> {
+  const { base, db, schema, sql } = x;
+  const compo = await x.makeCompo({ state: "judging", method: "borda", entryCount: 20 });
+  const ranking = compo.entries.map((e) => e.id);
+  const codes = await x.generateVoteCodes(compo.competitionId, 200);
+  const accounts: string[] = [];
+  for (let i = 0; i < 100; i++) accounts.push(await x.sessionCookie(await x.makeUser({ name: `Voter ${i}` })));
+  const judges: { cookie: string; cells: { entryId: string; criterionId: string; value: number }[] }[] = [];
+  for (let i = 0; i < 50; i++) {
+    const j = await x.makeUser({ name: `Burst Judge ${i}` });
+    await x.grantEventRole(compo.event.id, j.id, "judge");
+    await db().insert(schema.juryAssignments).values({ competitionId: compo.competitionId, judgeUserId: j.id });
+    const cells = compo.entries.slice(0, 10).flatMap((e) => compo.criteria.slice(0, 2).map((c) => ({ entryId: e.id, criterionId: c.id, value: (i + e.title.length) % 11 })));
+    judges.push({ cookie: await x.sessionCookie(j), cells });
+  }
+  const url = `${base}/api/ballots/${compo.competitionId}`;
+  const put = (kind: string, body: unknown, cookie?: string): TimedRequest & { cookie?: string } => ({
+    url,
+    kind,
+    cookie,
+    init: { method: "PUT", headers: { "content-type": "application/json", origin: base, ...(cookie ? { cookie } : {}) }, body: JSON.stringify(body) },
+  });
+  const requests: (TimedRequest & { cookie?: string })[] = [
+    ...codes.map((code) => put("fresh code", { code, ballot: { ranking } })),
+    ...codes.slice(0, 50).map((code) => put("reused code", { code, ballot: { ranking: [...ranking].reverse() } })),
+    ...Array.from({ length: 100 }, (_, i) => put("wrong code", { code: `WXYZ-${"ABCDEFGH"[i % 8]}${"JKMNPQRS"[(i >> 3) % 8]}${"TUVW"[(i >> 6) % 4]}Z`, ballot: { ranking } })),
+    ...accounts.map((cookie) => put("account", { ballot: { ranking } }, cookie)),
+    ...accounts.slice(0, 50).map((cookie) => put("account again", { ballot: { ranking: [...ranking].reverse() } }, cookie)),
+  ].sort(() => Math.random() - 0.5);
+
+  const bareRef = await fireAll(Array.from({ length: requests.length }, () => ({ url: `${base}/check-your-mail`, init: {}, kind: "bare page" })));
+  const [burst, saves] = await Promise.all([fireAll(requests), judgesAutosave(`${base}/api/judging/${compo.competitionId}/scores`, base, judges)]);
+  const t0 = performance.now();
+  const after = await fetch(`${base}/check-your-mail`, { signal: AbortSignal.timeout(30_000) });
+  await after.arrayBuffer();
+  const afterMs = performance.now() - t0;
+
+  console.log(describe("bare page, 500 at once", bareRef));
+  console.log(describe("mixed ballot burst, 500 at once", burst, bareRef));
+  console.log(describe("50 judges autosaving meanwhile", saves, bareRef));
+  console.log(`a page right after the burst: ${after.status} in ${afterMs.toFixed(0)} ms (${afterMs < 1000 ? "under a second" : "TOO SLOW"})`);
+
+  const [dupCodes] = (await db().execute(sql`select count(*)::int as n from (select vote_code_id from ${schema.ballots} where competition_id = ${compo.competitionId} and vote_code_id is not null group by vote_code_id having count(*) > 1) d`)) as unknown as { n: number }[];
+  const [dupAccounts] = (await db().execute(sql`select count(*)::int as n from (select voter_user_id from ${schema.ballots} where competition_id = ${compo.competitionId} and voter_user_id is not null group by voter_user_id having count(*) > 1) d`)) as unknown as { n: number }[];
+  const [byCode] = (await db().execute(sql`select count(*)::int as n from ${schema.ballots} where competition_id = ${compo.competitionId} and vote_code_id is not null`)) as unknown as { n: number }[];
+  const [byAccount] = (await db().execute(sql`select count(*)::int as n from ${schema.ballots} where competition_id = ${compo.competitionId} and voter_user_id is not null`)) as unknown as { n: number }[];
+  const [redeemed] = (await db().execute(sql`select count(*)::int as n from ${schema.voteCodes} where competition_id = ${compo.competitionId} and redeemed_at is not null`)) as unknown as { n: number }[];
+  const freshOk = burst.statuses["fresh code"]?.["200"] ?? 0;
+  const reusedOk = burst.statuses["reused code"]?.["200"] ?? 0;
+  const accountsOk = new Set(requests.flatMap((r, i) => ((r as { cookie?: string }).cookie && burst.each[i] === "200" ? [(r as { cookie?: string }).cookie] : [])));
+  console.log(
+    `ballots: ${byCode.n} by code (${redeemed.n} codes redeemed; ${freshOk} fresh + ${reusedOk} reused sends answered 200), ${byAccount.n} by account (${accountsOk.size} of 100 accounts had a cast answered 200); codes with two ballots: ${dupCodes.n}, accounts with two: ${dupAccounts.n}`,
+  );
+  const [sheetRows] = (await db().execute(sql`select count(*)::int as n from ${schema.scores} s join ${schema.scoresheets} h on h.id = s.scoresheet_id join ${schema.entries} e on e.id = h.entry_id where e.competition_id = ${compo.competitionId}`)) as unknown as { n: number }[];
+  const savedOk = saves.statuses.autosave["200"] ?? 0;
+  console.log(`scores: ${savedOk} autosaves answered 200, ${sheetRows.n} score rows (${sheetRows.n === savedOk ? "none lost or duplicated" : "MISMATCH"})`);
+  return (
+    burst.noAnswer === 0 &&
+    saves.noAnswer === 0 &&
+    after.status === 200 &&
+    afterMs < 1000 &&
+    dupCodes.n === 0 &&
+    dupAccounts.n === 0 &&
+    byCode.n === redeemed.n &&
+    byCode.n === freshOk + reusedOk &&
+    byAccount.n === accountsOk.size &&
+    sheetRows.n === savedOk
+  );
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) await benchLoad();

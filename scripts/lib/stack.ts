@@ -92,7 +92,9 @@ export async function startStack(opts: StackOptions): Promise<{ procs: Proc[]; s
       startProc(
         "web",
         process.execPath,
-        ["node_modules/@react-router/serve/bin.js", `${env.GATECRASH_BUILD_DIR ?? "build"}/server/index.js`],
+        // Gatecrash's own server (server/main.ts): security headers on static files too, compression, body limits,
+        // graceful stop on SIGTERM.
+        ["--import", "tsx", "server/main.ts", env.GATECRASH_BUILD_DIR ?? "build"],
         { ...env, NODE_ENV: "production", PORT: String(ports.web), HOST: "127.0.0.1" },
         q,
       ),

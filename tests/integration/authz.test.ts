@@ -17,7 +17,12 @@ import { grantEventRole, makeUser, request, sessionCookie } from "../support/use
  * of another crew, judge (on the jury), conflicted judge (on the jury, conflict with the entry), judge of another
  * event, organizer of another event, organizer, platform admin.
  * Letters: A = allowed (a loader answers < 400; an action is not refused: no 401/403/404, no sign-in redirect),
- *          D = refused (401, 403, 404, or a redirect to sign-in), . = not asserted (said why in the row's note).
+ *          S = sent to sign in (a redirect to /sign-in, or 401 from a JSON route), N = 404 (not found: the answer
+ *          never confirms that the object exists), F = 403 (forbidden: on pages that name no object, or an action
+ *          on an object the same role may already see),
+ *          . = not asserted (said why in the row's note).
+ * "Never confirm existence": a route whose URL names an object may not answer 403 to anyone, and a made-up id
+ * must get exactly the answer a real id of someone else's gets (the last test).
  */
 const ROLES = ["anonymous", "audience", "crew", "otherCrew", "judge", "conflictedJudge", "otherJudge", "otherOrganizer", "organizer", "admin"] as const;
 type Role = (typeof ROLES)[number];
@@ -30,9 +35,10 @@ interface Row {
 }
 
 const PUBLIC = "AAAAAAAAAA";
-const SIGNED_IN = "DAAAAAAAAA";
-const ORGANIZER = "DDDDDDDDAA";
-const NOBODY = "DDDDDDDDDD";
+const SIGNED_IN = "SAAAAAAAAA";
+const ORGANIZER = "SNNNNNNNAA";
+const NOBODY = "NNNNNNNNNN";
+const CREW_ONLY = "SNANNNNNNN";
 
 const TABLE: Record<string, Row> = {
   "/": { loader: PUBLIC },
@@ -45,12 +51,12 @@ const TABLE: Record<string, Row> = {
   "reset-password": { loader: PUBLIC, action: PUBLIC },
   events: { loader: PUBLIC },
   "my/entries": { loader: SIGNED_IN },
-  judging: { loader: "DDDDAAADDD" },
-  organize: { loader: "DDDDDDDAAA" },
-  admin: { loader: "DDDDDDDDDA" },
-  "api/auth/*": { loader: ".........." , action: "..........", note: "better-auth's own handler; its routes are not ours to map" },
+  judging: { loader: "SFFFAAAFFF" },
+  organize: { loader: "SFFFFFFAAA" },
+  admin: { loader: "SFFFFFFFFA" },
+  "api/auth/*": { loader: "..........", action: "..........", note: "better-auth's own handler; its routes are not ours to map" },
   "api/me": { loader: SIGNED_IN },
-  "api/checks/:entryId": { loader: "DDADAADDAA" },
+  "api/checks/:entryId": { loader: "SNANAANNAA" },
   "artifacts/:artifactId": { loader: PUBLIC, note: "the compo is in judging: its counting uploads' reference captures are on the public showcase" },
   "organize/events/new": { loader: SIGNED_IN, action: SIGNED_IN },
   "organize/events/:eventId": { loader: ORGANIZER, action: ORGANIZER },
@@ -63,28 +69,28 @@ const TABLE: Record<string, Row> = {
   "e/:eventSlug/:competitionSlug": { loader: PUBLIC },
   "e/:eventSlug/:competitionSlug/calendar.ics": { loader: PUBLIC },
   "crews/new": { loader: SIGNED_IN, action: SIGNED_IN },
-  "crews/:crewId": { loader: "DDADDDDDDD", action: "DDADDDDDDD", note: "crew pages are for members only, admins included" },
+  "crews/:crewId": { loader: CREW_ONLY, action: CREW_ONLY, note: "crew pages are for members only, admins included" },
   "invites/:token": { loader: "..........", action: "..........", note: "the token is the key; a made-up token is a 404 for everyone (tested in the entrant suite)" },
   "e/:eventSlug/:competitionSlug/enter": { loader: "..........", action: "..........", note: "the compo is in judging, so entering is closed for everyone" },
-  "entries/:entryId": { loader: "DDADDDDDAA", action: "DDADDDDDDD", note: "the organizer may look; only the crew acts" },
+  "entries/:entryId": { loader: "SNANNNNNAA", action: "SNANNNNNFF", note: "the organizer may look (so a 403 confirms nothing new); only the crew acts" },
   "organize/:competitionId/entries/:entryId/refund": { loader: ORGANIZER, action: ORGANIZER },
   "api/payments/webhook": { action: "..........", note: "authenticated by the payment service's signature, not by role" },
   "api/entries/:entryId/uploads": {
-    action: "DDADDDDDDD",
+    action: CREW_ONLY,
     body: { files: [{ kind: "bundle", filename: "a.zip", size: 100 }] },
     note: "validates the body before the access check (an empty body is a 400 for anyone): probed with a valid one",
   },
-  "api/uploads/:uploadId": { loader: "DDADDDDDDD", action: "DDADDDDDDD" },
+  "api/uploads/:uploadId": { loader: CREW_ONLY, action: CREW_ONLY },
   "api/uploads/:uploadId/files": {
-    action: "DDADDDDDDD",
+    action: CREW_ONLY,
     body: { kind: "layout", filename: "a.gds", size: 100 },
     note: "validates the body before the access check: probed with a valid one",
   },
-  "api/uploads/:uploadId/files/:fileId": { loader: "DDADDDDDDD", action: "DDADDDDDDD" },
-  "judging/:competitionId": { loader: "DDDDAADDDD" },
-  "judging/:competitionId/entries/:entryId": { loader: "DDDDADDDDD", action: "DDDDADDDDD" },
-  "api/judging/:competitionId/scores": { loader: "DDDDAADDDD", action: "DDDDAADDDD" },
-  "api/judging/:competitionId/notes": { action: "DDDDAADDDD" },
+  "api/uploads/:uploadId/files/:fileId": { loader: CREW_ONLY, action: CREW_ONLY },
+  "judging/:competitionId": { loader: "SNNNAANNNN" },
+  "judging/:competitionId/entries/:entryId": { loader: "SNNNANNNNN", action: "SNNNANNNNN" },
+  "api/judging/:competitionId/scores": { loader: "SNNNAANNNN", action: "SNNNAANNNN" },
+  "api/judging/:competitionId/notes": { action: "SNNNAANNNN" },
   "judge-invites/:token": { loader: "..........", action: "..........", note: "the token is the key (tested in the judging suite)" },
   "organize/:competitionId/jury": { loader: ORGANIZER, action: ORGANIZER },
   "organize/:competitionId/standings": { loader: ORGANIZER, action: ORGANIZER },
@@ -97,7 +103,7 @@ const TABLE: Record<string, Row> = {
   "e/:eventSlug/:competitionSlug/results.csv": { loader: NOBODY },
   "e/:eventSlug/:competitionSlug/results.txt": { loader: NOBODY },
   "e/:eventSlug/:competitionSlug/recount.json": { loader: NOBODY },
-  "api/ballots/:competitionId": { loader: PUBLIC, action: ".........." , note: "anyone may try with a vote code; tested in the voting suite" },
+  "api/ballots/:competitionId": { loader: PUBLIC, action: "..........", note: "anyone may try with a vote code; tested in the voting suite" },
   "organize/:competitionId/audience": { loader: ORGANIZER, action: ORGANIZER },
   "organize/:competitionId/audience/codes": { loader: ORGANIZER },
   "organize/:competitionId/audience/codes.csv": { loader: ORGANIZER },
@@ -198,13 +204,16 @@ function urlFor(path: string, params: Record<string, string>): string {
   return "/" + path.replace(/^\//, "").replace(/:(\w+)/g, (_, k: string) => params[k]).replace("*", params["*"]);
 }
 
-type Verdict = "A" | "D" | "?";
+type Verdict = "A" | "S" | "N" | "F" | "?";
 function classify(kind: "loader" | "action", status: number, location?: string): Verdict {
-  if (status === 401 || status === 403 || status === 404) return "D";
-  if (status >= 300 && status < 400 && location?.startsWith("/sign-in")) return "D";
+  if (status === 401 || (status >= 300 && status < 400 && location?.startsWith("/sign-in"))) return "S";
+  if (status === 404) return "N";
+  if (status === 403) return "F";
   if (kind === "loader") return status < 400 ? "A" : "?";
   return status < 500 ? "A" : "?";
 }
+const REFUSED = new Set<Verdict>(["S", "N", "F"]);
+const NAMES: Record<string, string> = { A: "allowed", S: "sent to sign in", N: "404", F: "403", "?": "an error" };
 
 async function outcome(fn: unknown, kind: "loader" | "action", url: string, params: Record<string, string>, cookie?: string, body: unknown = {}): Promise<{ status: number; location?: string }> {
   const req =
@@ -222,6 +231,37 @@ describe("the authorization matrix", () => {
     const missing = ALL.filter((r) => !TABLE[r.path]).map((r) => `add a row for "${r.path}" (${r.file})`);
     expect(missing).toEqual([]);
   });
+
+  it("never answers 403 on a route whose URL names an object, unless the same role may see that object", () => {
+    const named = ALL.filter((r) => /:\w+/.test(r.path) && TABLE[r.path]);
+    const wrong = named.flatMap((r) =>
+      (["loader", "action"] as const).flatMap((k) =>
+        [...(TABLE[r.path][k] ?? "")].flatMap((v, i) => (v === "F" && !(k === "action" && TABLE[r.path].loader?.[i] === "A") ? [`${k} ${r.path} expects a 403 for ${ROLES[i]}`] : [])),
+      ),
+    );
+    expect(wrong).toEqual([]);
+  });
+
+  it("answers a made-up id exactly as a real id that is not the caller's", async () => {
+    const ids = ["eventId", "competitionId", "entryId", "crewId", "uploadId", "fileId", "artifactId"];
+    const madeUp = Object.fromEntries(Object.entries(world.params).map(([k, v]) => [k, ids.includes(k) ? crypto.randomUUID() : v]));
+    const wrong: string[] = [];
+    for (const r of ALL.filter((x) => ids.some((k) => x.path.includes(`:${k}`)))) {
+      const row = TABLE[r.path];
+      const mod = (await import(/* @vite-ignore */ `../../app/${r.file}`)) as { loader?: unknown; action?: unknown };
+      for (const kind of ["loader", "action"] as const) {
+        const expected = row?.[kind];
+        if (!mod[kind] || !expected) continue;
+        for (const [i, role] of ROLES.entries()) {
+          if (expected[i] !== "N" && expected[i] !== "S") continue;
+          const got = await outcome(mod[kind], kind, urlFor(r.path, madeUp), madeUp, world.cookies[role], row.body);
+          const verdict = classify(kind, got.status, got.location);
+          if (verdict !== expected[i]) wrong.push(`${kind} ${r.path} as ${role}: a real id is ${NAMES[expected[i]]}, a made-up one ${got.status}`);
+        }
+      }
+    }
+    expect(wrong).toEqual([]);
+  }, 300_000);
 
   it("gives every role the expected outcome on every loader and action", async () => {
     const wrong: string[] = [];
@@ -246,7 +286,7 @@ describe("the authorization matrix", () => {
           if (want === ".") continue;
           const got = await outcome(fn, kind, url, world.params, world.cookies[role], row.body);
           const verdict = classify(kind, got.status, got.location);
-          if (verdict !== want) wrong.push(`${kind} ${r.path} as ${role}: expected ${want === "A" ? "allowed" : "refused"}, got ${got.status}${got.location ? ` → ${got.location}` : ""}`);
+          if (verdict !== want) wrong.push(`${kind} ${r.path} as ${role}: expected ${NAMES[want]}, got ${got.status}${got.location ? ` → ${got.location}` : ""}`);
         }
       }
     }
@@ -274,7 +314,7 @@ describe("cross-tenant ids", () => {
       const mod = (await import(/* @vite-ignore */ `../../app/routes/${m.file}.tsx`).catch(() => import(/* @vite-ignore */ `../../app/routes/${m.file}.ts`))) as Record<string, unknown>;
       const kind = m.kind ?? "loader";
       const got = await outcome(mod[kind], kind, m.path, m.params, cookies[m.role]);
-      if (classify(kind, got.status, got.location) !== "D") wrong.push(`${kind} ${m.path} as ${m.role}: got ${got.status}`);
+      if (!REFUSED.has(classify(kind, got.status, got.location))) wrong.push(`${kind} ${m.path} as ${m.role}: got ${got.status}`);
     }
     expect(wrong).toEqual([]);
   });

@@ -26,7 +26,7 @@ let closeDb: () => Promise<void>;
 
 beforeAll(async () => {
   s3Port = await freePort();
-  s3 = await startS3Fake({ port: s3Port, directory: join(root, "s3"), bucket: "gc-source" });
+  s3 = await startS3Fake({ port: s3Port, directory: join(root, "s3"), bucket: "gc-source", keys: { accessKeyId: process.env.S3_ACCESS_KEY_ID ?? "S3RVER", secretAccessKey: process.env.S3_SECRET_ACCESS_KEY ?? "S3RVER" } });
   sourceUrl = await ownDatabase("gatecrash_backup_src");
   process.env.DATABASE_URL = sourceUrl;
   process.env.S3_ENDPOINT = `http://127.0.0.1:${s3Port}`;
@@ -71,7 +71,7 @@ function cli(script: string, args: string[], env: NodeJS.ProcessEnv): Promise<{ 
 }
 
 async function objectHashes(bucket: string): Promise<Record<string, string>> {
-  const client = storageClient({ S3_ENDPOINT: `http://127.0.0.1:${s3Port}`, S3_REGION: "us-east-1", S3_ACCESS_KEY_ID: "S3RVER", S3_SECRET_ACCESS_KEY: "S3RVER" });
+  const client = storageClient({ S3_ENDPOINT: `http://127.0.0.1:${s3Port}`, S3_REGION: "us-east-1", S3_ACCESS_KEY_ID: process.env.S3_ACCESS_KEY_ID ?? "S3RVER", S3_SECRET_ACCESS_KEY: process.env.S3_SECRET_ACCESS_KEY ?? "S3RVER" });
   const out: Record<string, string> = {};
   const list = await client.send(new ListObjectsV2Command({ Bucket: bucket }));
   for (const o of list.Contents ?? []) {

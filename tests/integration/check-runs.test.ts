@@ -13,7 +13,7 @@ import * as artifactRoute from "~/routes/artifacts.$artifactId";
 import * as checksApi from "~/routes/api.checks.$entryId";
 import { designPath } from "../../demo/designs/index";
 import { makeCompetitionWithEntry, makeCompleteUpload } from "../support/entries";
-import { callRoute } from "../support/routes";
+import { callRoute, routeArgs } from "../support/routes";
 import { makeEvent, makeUser, request, sessionCookie } from "../support/users";
 
 
@@ -65,7 +65,7 @@ describe("a check run in the worker", () => {
   }, 240_000);
 
   it("shows the report to the crew through the JSON API and refuses strangers", async () => {
-    const own = (await checksApi.loader({ request: request(`/api/checks/${setup.entry.id}`, { cookie: await sessionCookie(setup.captain) }), params: { entryId: setup.entry.id }, context: {} } as never)) as Response;
+    const own = (await checksApi.loader((await routeArgs(request(`/api/checks/${setup.entry.id}`, { cookie: await sessionCookie(setup.captain) }), { entryId: setup.entry.id })) as never)) as Response;
     expect(own.status).toBe(200);
     const body = (await own.json()) as { check: { run: { verdict: string }; artifacts: Record<string, { url: string }> } };
     expect(body.check.run.verdict).toBe("pass");
@@ -77,13 +77,13 @@ describe("a check run in the worker", () => {
   it("streams artifacts to insiders with byte ranges, and not to the public while the compo is open", async () => {
     const [mine] = (await db().select().from(artifacts).where(eq(artifacts.checkRunId, setup.runId))).filter((a) => a.kind === "first-frame");
     const cookie = await sessionCookie(setup.captain);
-    const full = (await artifactRoute.loader({ request: request(`/artifacts/${mine.id}`, { cookie }), params: { artifactId: mine.id }, context: {} } as never)) as Response;
+    const full = (await artifactRoute.loader((await routeArgs(request(`/artifacts/${mine.id}`, { cookie }), { artifactId: mine.id })) as never)) as Response;
     expect(full.status).toBe(200);
     const bytes = Buffer.from(await full.arrayBuffer());
     // PNG signature, from the PNG specification (ISO/IEC 15948): 89 50 4E 47 0D 0A 1A 0A.
     expect(bytes.subarray(0, 8).toString("hex")).toBe("89504e470d0a1a0a");
     expect(bytes.length).toBe(mine.sizeBytes);
-    const part = (await artifactRoute.loader({ request: request(`/artifacts/${mine.id}`, { cookie, headers: { range: "bytes=1-3" } }), params: { artifactId: mine.id }, context: {} } as never)) as Response;
+    const part = (await artifactRoute.loader((await routeArgs(request(`/artifacts/${mine.id}`, { cookie, headers: { range: "bytes=1-3" } }), { artifactId: mine.id })) as never)) as Response;
     expect(part.status).toBe(206);
     expect(part.headers.get("content-range")).toBe(`bytes 1-3/${mine.sizeBytes}`);
     expect(Buffer.from(await part.arrayBuffer()).toString("latin1")).toBe("PNG");

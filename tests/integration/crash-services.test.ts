@@ -37,7 +37,7 @@ let mod: {
 };
 
 const startS3 = async () => {
-  s3 = await startS3Fake({ port: s3Port, directory: join(root, "s3"), bucket: process.env.S3_BUCKET ?? "gatecrash" });
+  s3 = await startS3Fake({ port: s3Port, directory: join(root, "s3"), bucket: process.env.S3_BUCKET ?? "gatecrash", keys: { accessKeyId: process.env.S3_ACCESS_KEY_ID ?? "S3RVER", secretAccessKey: process.env.S3_SECRET_ACCESS_KEY ?? "S3RVER" } });
 };
 const stopS3 = async () => {
   await s3?.close();

@@ -3,6 +3,7 @@ import { db } from "~/db/client.server";
 import { competitions, crewMembers, crews, entries, events } from "~/db/schema";
 import { DEMO_RULESET } from "~/rules/ruleset";
 import { makeUser, sessionCookie, unique, type TestUser } from "../support/users";
+import { routeContext } from "../support/routes";
 
 /** Fixtures for the entrant tests: each call makes its own event, competition, crew and entry. */
 export async function makeCompetition(opts: { feeAmount?: number; deadlineAt?: Date | null; graceMinutes?: number; state?: "draft" | "open" | "closed"; timeZone?: string; ruleset?: unknown } = {}) {
@@ -50,7 +51,7 @@ export async function entryRow(id: string) {
 export async function callApi<T = Record<string, unknown>>(fn: unknown, req: Request, params: Record<string, string> = {}): Promise<{ status: number; body: T }> {
   let res: Response;
   try {
-    res = (await (fn as (a: unknown) => Promise<Response>)({ request: req, params, context: {} })) as Response;
+    res = (await (fn as (a: unknown) => Promise<Response>)({ request: req, params, context: await routeContext(req) })) as Response;
   } catch (thrown) {
     if (!(thrown instanceof Response)) throw thrown;
     res = thrown;

@@ -13,7 +13,7 @@ import * as organizeRoute from "~/routes/organize";
 import * as signUp from "~/routes/sign-up";
 import * as signIn from "~/routes/sign-in";
 import { firstLink, waitForMail } from "../support/mail";
-import { callRoute } from "../support/routes";
+import { callRoute, routeArgs } from "../support/routes";
 import { grantEventRole, makeEvent, makeUser, request, sessionCookie, unique } from "../support/users";
 
 afterAll(async () => {
@@ -59,7 +59,7 @@ describe("the JSON API convention", () => {
 
   it("returns the signed-in user's roles", async () => {
     const u = await makeUser();
-    const res = (await apiMe.loader({ request: request("/api/me", { cookie: await sessionCookie(u) }), params: {}, context: {} } as never)) as Response;
+    const res = (await apiMe.loader((await routeArgs(request("/api/me", { cookie: await sessionCookie(u) }), {})) as never)) as Response;
     expect(res.status).toBe(200);
     const body = (await res.json()) as { email: string; roles: { isAdmin: boolean } };
     expect(body.email).toBe(u.email);

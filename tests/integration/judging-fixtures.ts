@@ -1,6 +1,7 @@
 import { db } from "~/db/client.server";
 import { competitions, crewMembers, crews, criteria, entries, juryAssignments, uploads } from "~/db/schema";
 import { grantEventRole, makeEvent, makeUser, unique, type TestUser } from "../support/users";
+import { routeContext } from "../support/routes";
 
 /**
  * A compo in judging with its own organizer, judges and entries (each with its own crew, entrant and a complete
@@ -65,7 +66,7 @@ export async function makeCompo(
 export async function callApi<T = Record<string, unknown>>(fn: unknown, req: Request, params: Record<string, string>): Promise<{ status: number; body: T }> {
   let res: unknown;
   try {
-    res = await (fn as (a: unknown) => Promise<unknown>)({ request: req, params, context: {} });
+    res = await (fn as (a: unknown) => Promise<unknown>)({ request: req, params, context: await routeContext(req) });
   } catch (thrown) {
     res = thrown;
   }

@@ -87,7 +87,8 @@ describe("conflicts", () => {
     expect(api.status).toBe(403);
     expect(api.body.error.code).toBe("conflict_of_interest");
     const page = await callRoute(entryRoute.loader, request("/x", { cookie }), { ...params, entryId: compo.entries[1].id });
-    expect(page.status).toBe(403);
+    // Not on their grid: the page answers 404 like any entry that is not theirs to judge (never confirming it).
+    expect(page.status).toBe(404);
   });
 
   it("lets a judge declare a conflict on the entry page (reason required, kept on error); the row goes and the API refuses", async () => {

@@ -17,7 +17,7 @@ import * as eventRoute from "~/routes/organize.events.$eventId";
 import * as newCompetition from "~/routes/organize.events.$eventId.competitions.new";
 import * as newEvent from "~/routes/organize.events.new";
 import { putObject } from "~/storage/s3.server";
-import { callRoute as callRouteRaw, type Outcome } from "../support/routes";
+import { callRoute as callRouteRaw, type Outcome, routeArgs } from "../support/routes";
 import { grantEventRole, makeEvent, makeUser, request, sessionCookie, unique, type TestUser } from "../support/users";
 
 afterAll(async () => {
@@ -170,7 +170,7 @@ describe("ruleset import and export", () => {
     const { cookie, event } = await organizerWithEvent();
     const a = await createCompetition(cookie, event.id, { "ruleset.topModule": "beam_top", "ruleset.flipFlopBudget": "180", "ruleset.tile.shapes": "single=1x1, pair=2x1" });
     const b = await createCompetition(cookie, event.id);
-    const res = (await rulesetJsonRoute.loader({ request: request(`/organize/${a}/ruleset.json`, { cookie }), params: { competitionId: a }, context: {} } as never)) as Response;
+    const res = (await rulesetJsonRoute.loader((await routeArgs(request(`/organize/${a}/ruleset.json`, { cookie }), { competitionId: a })) as never)) as Response;
     expect(res.headers.get("content-disposition")).toMatch(/attachment; filename=".*ruleset-v1\.json"/);
     const text = await res.text();
     const exported = JSON.parse(text);
@@ -346,7 +346,7 @@ describe("the calendar file", () => {
     });
     await db().update(competitions).set({ state: "open" }).where(eq(competitions.id, id));
     const [c] = await db().select().from(competitions).where(eq(competitions.id, id));
-    const res = (await calendarRoute.loader({ request: request(`/e/${event.slug}/${c.slug}/calendar.ics`), params: { eventSlug: event.slug, competitionSlug: c.slug }, context: {} } as never)) as Response;
+    const res = (await calendarRoute.loader((await routeArgs(request(`/e/${event.slug}/${c.slug}/calendar.ics`), { eventSlug: event.slug, competitionSlug: c.slug })) as never)) as Response;
     expect(res.headers.get("content-type")).toBe("text/calendar; charset=utf-8");
     const ics = await res.text();
     // RFC 5545 3.1: lines end in CRLF and are folded at 75 octets.

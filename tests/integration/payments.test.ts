@@ -146,8 +146,8 @@ describe("entry fee checkout and webhooks", () => {
     const path = `/organize/${s.competition.id}/entries/${s.entry.id}/refund`;
     const params = { competitionId: s.competition.id, entryId: s.entry.id };
     expect((await callRoute(refundRoute.action, request(path, { form: {} }), params)).status).toBe(302); // to sign-in
-    expect((await callRoute(refundRoute.action, request(path, { cookie: s.cookie, form: {} }), params)).status).toBe(403);
-    expect((await callRoute(refundRoute.action, request(path, { cookie: await sessionCookie(outsider), form: {} }), params)).status).toBe(403);
+    expect((await callRoute(refundRoute.action, request(path, { cookie: s.cookie, form: {} }), params)).status).toBe(404);
+    expect((await callRoute(refundRoute.action, request(path, { cookie: await sessionCookie(outsider), form: {} }), params)).status).toBe(404);
     // The organizer of this competition cannot reach another competition's entry through it.
     const cross = await callRoute(refundRoute.loader, request(path, { cookie: await sessionCookie(organizer) }), { competitionId: s.competition.id, entryId: other.entry.id });
     expect(cross.status).toBe(404);
@@ -166,4 +166,56 @@ describe("entry fee checkout and webhooks", () => {
     for (const e of await fakeEvents(sessionId)) await deliver(e);
     expect((await entryRow(s.entry.id)).feeState).toBe("unpaid");
   });
+
+  it("a validly signed event for a session the payment service reports unpaid changes nothing", async () => {
+    const s = await makeEntrySetup({ feeAmount: 1500 });
+    const out = await callRoute(dashboard.action, request(`/entries/${s.entry.id}`, { cookie: s.cookie, form: { intent: "pay" } }), { entryId: s.entry.id });
+    const sessionId = new URL(out.location!).pathname.split("/").pop()!;
+    const [p] = await db().select().from(payments).where(eq(payments.checkoutSessionId, sessionId));
+    // Everything a forger could put in the body: it is signed with the right secret, but nobody paid.
+    const forged = {
+      id: `evt_forged_${crypto.randomUUID()}`,
+      object: "event",
+      type: "checkout.session.completed",
+      created: Math.floor(Date.now() / 1000),
+      data: { object: { id: sessionId, object: "checkout.session", status: "complete", payment_status: "paid", amount_total: 1500, currency: "eur", payment_intent: "pi_forged", metadata: { gatecrash_payment_id: p.id, entry_id: s.entry.id } } },
+    };
+    const res = await deliver(forged);
+    expect(res.status).toBe(200);
+    expect(res.body.outcome).toBe("ignored");
+    const [after] = await db().select().from(payments).where(eq(payments.id, p.id));
+    expect(after.state).toBe("open");
+    expect(after.paymentIntentId).toBeNull();
+    expect((await entryRow(s.entry.id)).feeState).toBe("pending");
+  });
+
+  it("applies what the payment service says, not the body: a paid session's event pointed at another entry pays only its own", async () => {
+    const payer = await makeEntrySetup({ feeAmount: 1500 });
+    const other = await makeEntrySetup({ feeAmount: 1500 });
+    const start = await callRoute(dashboard.action, request(`/entries/${other.entry.id}`, { cookie: other.cookie, form: { intent: "pay" } }), { entryId: other.entry.id });
+    const otherSession = new URL(start.location!).pathname.split("/").pop()!;
+    const [otherPayment] = await db().select().from(payments).where(eq(payments.checkoutSessionId, otherSession));
+    const { events } = await payThroughFake(payer.entry.id, payer.cookie);
+    const completed = byType(events, "checkout.session.completed") as unknown as { id: string; data: { object: Record<string, unknown> } };
+    const redirected = {
+      ...completed,
+      id: `evt_redirected_${crypto.randomUUID()}`,
+      data: { object: { ...completed.data.object, metadata: { gatecrash_payment_id: otherPayment.id, entry_id: other.entry.id } } },
+    };
+    const res = await deliver(redirected);
+    expect(res.status).toBe(200);
+    expect((await entryRow(other.entry.id)).feeState).toBe("pending");
+    expect((await entryRow(payer.entry.id)).feeState).toBe("paid");
+  });
+
+  it("ignores a paid session whose amount or currency differs from the fee it was opened for", async () => {
+    const s = await makeEntrySetup({ feeAmount: 1500 });
+    const { events, sessionId } = await payThroughFake(s.entry.id, s.cookie);
+    // The organizer raised the fee after the checkout was opened: what was paid no longer matches the payment row.
+    await db().update(payments).set({ amount: 2500 }).where(eq(payments.checkoutSessionId, sessionId));
+    const res = await deliver(byType(events, "checkout.session.completed"));
+    expect(res.body.outcome).toBe("ignored");
+    expect((await entryRow(s.entry.id)).feeState).toBe("pending");
+  });
 });
+

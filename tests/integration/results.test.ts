@@ -17,7 +17,7 @@ import { parseRecountInput, recount } from "~/scoring/recount";
 import type { StageScreen } from "~/stage/screens";
 import { castBallot } from "~/voting/voting.server";
 import { runRecount } from "../../scripts/recount";
-import { callRoute } from "../support/routes";
+import { callRoute, routeArgs } from "../support/routes";
 import { makeUser, request, sessionCookie } from "../support/users";
 import { addScores, makeCompo, type CompoFixture } from "./showcase.fixtures";
 
@@ -61,7 +61,7 @@ async function publish(f: CompoFixture, note = "") {
 async function text(loader: unknown, f: CompoFixture, query = ""): Promise<{ status: number; body: string; type: string | null }> {
   const out = await callRoute<Response>(loader, request(`/e/${f.event.slug}/${f.slug}/x${query}`), { eventSlug: f.event.slug, competitionSlug: f.slug });
   if (out.status !== 200) return { status: out.status, body: "", type: null };
-  const res = (await (loader as (a: unknown) => Promise<Response>)({ request: request(`/e/${f.event.slug}/${f.slug}/x${query}`), params: { eventSlug: f.event.slug, competitionSlug: f.slug }, context: {} })) as Response;
+  const res = (await (loader as (a: unknown) => Promise<Response>)((await routeArgs(request(`/e/${f.event.slug}/${f.slug}/x${query}`), { eventSlug: f.event.slug, competitionSlug: f.slug })))) as Response;
   return { status: res.status, body: await res.text(), type: res.headers.get("content-type") };
 }
 
@@ -70,8 +70,8 @@ describe("previewing and publishing results", () => {
     const f = await scoredCompo();
     const params = { competitionId: f.competitionId };
     const stranger = await sessionCookie(await makeUser());
-    expect((await callRoute(organizeResults.loader, request("/x", { cookie: stranger }), params)).status).toBe(403);
-    expect((await callRoute(organizeResults.action, request("/x", { form: { confirm: "yes" }, cookie: stranger }), params)).status).toBe(403);
+    expect((await callRoute(organizeResults.loader, request("/x", { cookie: stranger }), params)).status).toBe(404);
+    expect((await callRoute(organizeResults.action, request("/x", { form: { confirm: "yes" }, cookie: stranger }), params)).status).toBe(404);
 
     const before = await callRoute<{ competition: { id: string } }>(resultsPage.loader, request(`/e/${f.event.slug}/${f.slug}/results`), { eventSlug: f.event.slug, competitionSlug: f.slug });
     expect((before.data as unknown as { shown: unknown }).shown).toBeNull();

@@ -146,8 +146,8 @@ describe("mutations only from our own origin", () => {
 describe("session cookies", () => {
   it("are HttpOnly and SameSite=Lax, without Secure on plain http", async () => {
     const u = await makeUser();
-    const res = await http().post("/api/auth/sign-in/email").set("Origin", appOrigin()).send({ email: u.email, password: u.password });
-    expect(res.status).toBe(200);
+    const res = await http().post("/sign-in").set("Origin", appOrigin()).type("form").send({ email: u.email, password: u.password });
+    expect(res.status).toBe(302);
     const cookies = ([] as string[]).concat(res.headers["set-cookie"] ?? []);
     const session = cookies.find((c) => /session_token=/.test(c));
     expect(session, cookies.join("\n")).toBeTruthy();

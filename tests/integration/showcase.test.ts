@@ -87,7 +87,7 @@ describe("stage mode", () => {
     await addCheckRun(f.entries[1].uploadId, "warn");
     const params = { competitionId: f.competitionId };
     const stranger = await sessionCookie(await makeUser());
-    expect((await callRoute(stageRoute.loader, request(`/stage/${f.competitionId}`, { cookie: stranger }), params)).status).toBe(403);
+    expect((await callRoute(stageRoute.loader, request(`/stage/${f.competitionId}`, { cookie: stranger }), params)).status).toBe(404);
     expect((await callRoute(stageRoute.loader, request(`/stage/${f.competitionId}`), params)).status).toBe(302);
 
     const dim = await callRoute<{ screens: StageScreen[] }>(stageRoute.loader, request(`/stage/${f.competitionId}`, { cookie: f.organizerCookie }), params);

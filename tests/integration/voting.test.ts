@@ -10,7 +10,7 @@ import * as codesSheet from "~/routes/organize.audience.codes";
 import * as voteRoute from "~/routes/vote";
 import { hitRateLimit } from "~/voting/rate-limit.server";
 import { CAST_LIMIT, castBallot, codeCookieName, generateVoteCodes, VoteError } from "~/voting/voting.server";
-import { callRoute } from "../support/routes";
+import { callRoute, routeArgs } from "../support/routes";
 import { makeUser, request, sessionCookie, unique } from "../support/users";
 import { makeCompo } from "./showcase.fixtures";
 
@@ -20,7 +20,7 @@ afterAll(async () => {
 });
 
 async function put(competitionId: string, body: unknown, cookie?: string): Promise<{ status: number; json: any; setCookie: string | null }> {
-  const res = (await apiBallots.action({ request: request(`/api/ballots/${competitionId}`, { method: "PUT", json: body, cookie }), params: { competitionId }, context: {} } as never)) as Response;
+  const res = (await apiBallots.action((await routeArgs(request(`/api/ballots/${competitionId}`, { method: "PUT", json: body, cookie }), { competitionId })) as never)) as Response;
   return { status: res.status, json: await res.json(), setCookie: res.headers.get("set-cookie") };
 }
 
@@ -46,7 +46,7 @@ describe("casting a ballot", () => {
     const history = await db().select().from(ballotHistory).where(eq(ballotHistory.ballotId, rows[0].id)).orderBy(ballotHistory.changedAt);
     expect(history.map((h) => h.content)).toEqual([{ points: { [a.id]: 5, [b.id]: 1 } }, { points: { [a.id]: 0, [b.id]: 4 } }]);
     // The voter reads back their own ballot.
-    const mine = (await apiBallots.loader({ request: request(`/api/ballots/${f.competitionId}`, { cookie }), params: { competitionId: f.competitionId }, context: {} } as never)) as Response;
+    const mine = (await apiBallots.loader((await routeArgs(request(`/api/ballots/${f.competitionId}`, { cookie }), { competitionId: f.competitionId })) as never)) as Response;
     expect(((await mine.json()) as any).ballot.content).toEqual({ points: { [a.id]: 0, [b.id]: 4 } });
   });
 
@@ -190,9 +190,10 @@ describe("the organizer's audience page", () => {
     const f = await makeCompo({ method: "points" });
     const params = { competitionId: f.competitionId };
     const voterCookie = await sessionCookie(await makeUser());
-    expect((await callRoute(audienceRoute.loader, request(`/organize/${f.competitionId}/audience`, { cookie: voterCookie }), params)).status).toBe(403);
+    // A stranger is told nothing exists here (404), as for a made-up id; anonymous callers are sent to sign in.
+    expect((await callRoute(audienceRoute.loader, request(`/organize/${f.competitionId}/audience`, { cookie: voterCookie }), params)).status).toBe(404);
     expect((await callRoute(audienceRoute.loader, request(`/organize/${f.competitionId}/audience`), params)).status).toBe(302);
-    expect((await callRoute(codesCsv.loader, request("/x", { cookie: voterCookie }), params)).status).toBe(403);
+    expect((await callRoute(codesCsv.loader, request("/x", { cookie: voterCookie }), params)).status).toBe(404);
 
     await put(f.competitionId, { ballot: { points: { [f.entries[0].id]: 5 } } }, voterCookie);
     await put(f.competitionId, { ballot: { points: { [f.entries[0].id]: 4 } } }, voterCookie);
@@ -210,11 +211,11 @@ describe("the organizer's audience page", () => {
     expect(page.data!.count).toMatchObject({ ballots: 1, changes: 1, codesIssued: 12 });
     expect(page.data!.count.standings.find((r) => r.candidate === f.entries[0].id)?.score).toBe(4);
 
-    const csv = (await codesCsv.loader({ request: request("/x", { cookie: f.organizerCookie }), params, context: {} } as never)) as Response;
+    const csv = (await codesCsv.loader((await routeArgs(request("/x", { cookie: f.organizerCookie }), params)) as never)) as Response;
     const lines = (await csv.text()).trim().split("\r\n");
     expect(lines[0]).toBe("code,party_wide,votes_in,created_at,used_in");
     expect(lines).toHaveLength(13);
-    const sheet = (await codesSheet.loader({ request: request("/x", { cookie: f.organizerCookie }), params, context: {} } as never)) as Response;
+    const sheet = (await codesSheet.loader((await routeArgs(request("/x", { cookie: f.organizerCookie }), params)) as never)) as Response;
     const html = await sheet.text();
     expect(sheet.headers.get("content-type")).toContain("text/html");
     expect(html.match(/class="slip"/g)).toHaveLength(12);

@@ -2,7 +2,7 @@ import { parse } from "csv-parse/sync";
 import { describe, expect, it } from "vitest";
 import { toCsv } from "./csv";
 
-describe("party CSV", () => {
+describe("CSV exports", () => {
   it("is RFC 4180: CRLF records, quotes around commas, quotes and line breaks, doubled inner quotes (RFC 4180, section 2)", () => {
     const out = toCsv(["a", "b"], [["x,y", 'say "hi"'], ["two\nlines", 3]]);
     expect(out).toBe('a,b\r\n"x,y","say ""hi"""\r\n"two\nlines",3\r\n');
