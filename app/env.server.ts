@@ -1,3 +1,4 @@
+import { availableParallelism } from "node:os";
 import { z } from "zod";
 
 /** Every setting Gatecrash reads, validated once at start-up. Defaults work for the local stack of `npm start`. */
@@ -27,6 +28,8 @@ const envSchema = z.object({
   CHECK_RUN_EXPIRE_SECONDS: z.coerce.number().int().min(1).default(15 * 60),
   /** How often the supervising worker expires stalled jobs (pg-boss maintenance; its default is 120 s). */
   QUEUE_MAINTENANCE_SECONDS: z.coerce.number().int().min(1).default(120),
+  /** Check runs one worker process runs at a time; default: one core left for the rest of the machine. */
+  WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(Math.max(1, availableParallelism() - 1)),
 });
 
 export type Env = z.infer<typeof envSchema>;
