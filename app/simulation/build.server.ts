@@ -35,6 +35,8 @@ export interface SimulationRequest {
   profileGuided?: boolean | "auto";
   /** false compiles even when the model cache has this model, and stores nothing (for measuring builds) */
   useModelCache?: boolean;
+  /** the model cache's folder (default: MODEL_CACHE_DIR, shared by every build on this machine) */
+  modelCacheDir?: string;
   /** Called when the run starts, with the frames file it appends to and a promise that settles when it ends. */
   watchFrames?: (framesPath: string, runEnded: Promise<unknown>) => Promise<unknown>;
 }
@@ -205,7 +207,7 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
     const binary = join(objDir, "Vtop");
 
     const plainKey = keyOf("plain");
-    let plain = useCache ? cachedModel(plainKey) : null;
+    let plain = useCache ? cachedModel(plainKey, req.modelCacheDir) : null;
     if (plain) {
       placeModel(plain, binary);
       modelCached = true;
@@ -214,13 +216,13 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
       compile = await step(plainBuild(pch !== null), pch ? [{ host: pch, inside: PCH_MOUNT }] : undefined);
       if (!classify(compile)) {
         plain = { binary, buildMs: Date.now() - makeStarted };
-        if (useCache) storeModel(plainKey, binary, plain.buildMs);
+        if (useCache) storeModel(plainKey, binary, plain.buildMs, req.modelCacheDir);
       }
     }
     const wantProfile = req.profileGuided === true || ((req.profileGuided ?? "auto") === "auto" && plain !== null && profilePays(ruleset, frames, plain.buildMs));
     if (plain && wantProfile) {
       const profiledKey = keyOf("profile-guided");
-      const cached = useCache ? cachedModel(profiledKey) : null;
+      const cached = useCache ? cachedModel(profiledKey, req.modelCacheDir) : null;
       if (cached) {
         placeModel(cached, binary);
         profileGuided = true;
@@ -239,7 +241,7 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
           });
           profileGuided = !classify(profiled);
           compile = await step(FINAL_BUILD);
-          if (!classify(compile) && profileGuided && useCache) storeModel(profiledKey, binary, Date.now() - makeStarted);
+          if (!classify(compile) && profileGuided && useCache) storeModel(profiledKey, binary, Date.now() - makeStarted, req.modelCacheDir);
         }
       }
     }

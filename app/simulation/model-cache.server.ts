@@ -46,8 +46,8 @@ export function modelKey(objDir: string, inputs: { name: string; bytes: Buffer |
   return h.digest("hex");
 }
 
-export function cachedModel(key: string): CachedModel | null {
-  const dir = join(MODEL_CACHE_DIR, key);
+export function cachedModel(key: string, root = MODEL_CACHE_DIR): CachedModel | null {
+  const dir = join(root, key);
   if (!existsSync(join(dir, "Vtop"))) return null;
   const meta = JSON.parse(readFileSync(join(dir, "meta.json"), "utf8")) as { buildMs: number };
   return { binary: join(dir, "Vtop"), buildMs: meta.buildMs };
@@ -60,16 +60,16 @@ export function placeModel(model: CachedModel, target: string): void {
   chmodSync(target, 0o755);
 }
 
-export function storeModel(key: string, binary: string, buildMs: number): void {
+export function storeModel(key: string, binary: string, buildMs: number, root = MODEL_CACHE_DIR): void {
   const st = lstatSync(binary, { throwIfNoEntry: false });
   if (!st?.isFile() || st.size > MAX_BINARY_BYTES) return;
-  mkdirSync(MODEL_CACHE_DIR, { recursive: true, mode: 0o700 });
-  const staging = join(MODEL_CACHE_DIR, `.tmp-${key}-${process.pid}`);
+  mkdirSync(root, { recursive: true, mode: 0o700 });
+  const staging = join(root, `.tmp-${key}-${process.pid}`);
   rmSync(staging, { recursive: true, force: true });
   mkdirSync(staging);
   copyFileSync(binary, join(staging, "Vtop"));
   writeFileSync(join(staging, "meta.json"), JSON.stringify({ buildMs }));
-  const dir = join(MODEL_CACHE_DIR, key);
+  const dir = join(root, key);
   try {
     renameSync(staging, dir);
   } catch (e) {
@@ -77,15 +77,15 @@ export function storeModel(key: string, binary: string, buildMs: number): void {
     if ((e as NodeJS.ErrnoException).code !== "ENOTEMPTY" && (e as NodeJS.ErrnoException).code !== "EEXIST") throw e;
     rmSync(staging, { recursive: true, force: true });
   }
-  prune();
+  prune(root);
 }
 
 /** Keeps the most recently stored entries. */
-function prune(): void {
-  const entries = readdirSync(MODEL_CACHE_DIR).filter((n) => !n.startsWith("."));
+function prune(root: string): void {
+  const entries = readdirSync(root).filter((n) => !n.startsWith("."));
   if (entries.length <= KEEP_ENTRIES) return;
-  const aged = entries.map((n) => ({ n, t: statSync(join(MODEL_CACHE_DIR, n)).mtimeMs })).sort((a, b) => a.t - b.t);
-  for (const { n } of aged.slice(0, entries.length - KEEP_ENTRIES)) rmSync(join(MODEL_CACHE_DIR, n), { recursive: true, force: true });
+  const aged = entries.map((n) => ({ n, t: statSync(join(root, n)).mtimeMs })).sort((a, b) => a.t - b.t);
+  for (const { n } of aged.slice(0, entries.length - KEEP_ENTRIES)) rmSync(join(root, n), { recursive: true, force: true });
 }
 
 /** Empties the cache (the checks bench measures cold builds this way). */
