@@ -14,6 +14,10 @@ const envSchema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().default("S3RVER"),
   SMTP_HOST: z.string().default("127.0.0.1"),
   SMTP_PORT: z.coerce.number().int().default(1025),
+  /** none: the local catcher; starttls or tls: a real relay (app/mail/outbox.server.ts) */
+  SMTP_SECURITY: z.enum(["none", "starttls", "tls"]).default("none"),
+  SMTP_USER: z.string().default(""),
+  SMTP_PASSWORD: z.string().default(""),
   MAIL_FROM: z.string().default("Gatecrash <no-reply@gatecrash.test>"),
   STRIPE_SECRET_KEY: z.string().default("sk_test_gatecrash_local"),
   STRIPE_WEBHOOK_SECRET: z.string().default("whsec_gatecrash_local_secret"),

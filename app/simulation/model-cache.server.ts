@@ -63,19 +63,21 @@ export function placeModel(model: CachedModel, target: string): void {
 export function storeModel(key: string, binary: string, buildMs: number, root = MODEL_CACHE_DIR): void {
   const st = lstatSync(binary, { throwIfNoEntry: false });
   if (!st?.isFile() || st.size > MAX_BINARY_BYTES) return;
-  mkdirSync(root, { recursive: true, mode: 0o700 });
   const staging = join(root, `.tmp-${key}-${process.pid}`);
-  rmSync(staging, { recursive: true, force: true });
-  mkdirSync(staging);
-  copyFileSync(binary, join(staging, "Vtop"));
-  writeFileSync(join(staging, "meta.json"), JSON.stringify({ buildMs }));
   const dir = join(root, key);
   try {
+    mkdirSync(root, { recursive: true, mode: 0o700 });
+    rmSync(staging, { recursive: true, force: true });
+    mkdirSync(staging);
+    copyFileSync(binary, join(staging, "Vtop"));
+    writeFileSync(join(staging, "meta.json"), JSON.stringify({ buildMs }));
     renameSync(staging, dir);
   } catch (e) {
-    // two workers on one machine stored the same model: the first one's stays
-    if ((e as NodeJS.ErrnoException).code !== "ENOTEMPTY" && (e as NodeJS.ErrnoException).code !== "EEXIST") throw e;
+    // Two workers on one machine stored the same model (the first one's stays), or the cache was emptied
+    // meanwhile (the checks bench does that): either way this build is unaffected, only not kept.
+    if (!["ENOTEMPTY", "EEXIST", "ENOENT"].includes((e as NodeJS.ErrnoException).code ?? "")) throw e;
     rmSync(staging, { recursive: true, force: true });
+    return;
   }
   prune(root);
 }
@@ -84,7 +86,7 @@ export function storeModel(key: string, binary: string, buildMs: number, root = 
 function prune(root: string): void {
   const entries = readdirSync(root).filter((n) => !n.startsWith("."));
   if (entries.length <= KEEP_ENTRIES) return;
-  const aged = entries.map((n) => ({ n, t: statSync(join(root, n)).mtimeMs })).sort((a, b) => a.t - b.t);
+  const aged = entries.map((n) => ({ n, t: statSync(join(root, n), { throwIfNoEntry: false })?.mtimeMs ?? 0 })).sort((a, b) => a.t - b.t);
   for (const { n } of aged.slice(0, entries.length - KEEP_ENTRIES)) rmSync(join(root, n), { recursive: true, force: true });
 }
 
