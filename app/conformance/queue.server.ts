@@ -22,7 +22,7 @@ function send(checkRunId: string, entryId: string, extra: { priority?: number; s
     boss.send(QUEUES.checkRun, { checkRunId }, {
       singletonKey: entryId,
       // pg-boss's own retry covers a worker killed mid-run (the job expires and is handed out again)
-      retryLimit: 1,
+      retryLimit: 2,
       retryDelay: 5,
       expireInSeconds: env().CHECK_RUN_EXPIRE_SECONDS,
       ...extra,
