@@ -4,16 +4,9 @@ import { AudioCaution, PlayerGate } from "../PlayerGate";
 import { FindingsTable } from "./FindingsTable";
 import { LayoutViewer } from "./LayoutViewer";
 import { TimingTable, type SpeedFigures, type VideoFigures } from "./TimingTable";
+import { CHECK_STEPS } from "./steps";
 import { VerdictBadge } from "./VerdictBadge";
 
-const STEPS = [
-  ["intake", "Unpack"],
-  ["precheck", "Pre-check"],
-  ["source", "yosys"],
-  ["layout", "Layout"],
-  ["simulation", "Simulate"],
-  ["capture", "Capture video"],
-] as const;
 
 /** "place 3 in line, 2 checks running now" */
 function QueueLine({ queue }: { queue: { place: number; running: number } | null }) {
@@ -62,7 +55,7 @@ export function CheckRunPanel({ check, offline, videoMode }: { check: EntryCheck
         <div className="space-y-2">
           <ol className="flex flex-wrap gap-2" aria-label="Check progress" aria-live="polite">
             <li className={`rounded-full px-3 py-1 text-xs font-semibold ${run.state === "queued" ? "bg-signal text-white" : "bg-line text-ink-soft"}`}>Queued</li>
-            {STEPS.map(([id, label]) => (
+            {CHECK_STEPS.map(([id, label]) => (
               <li key={id} className={`rounded-full px-3 py-1 text-xs font-semibold ${run.step === id ? "bg-signal text-white" : "bg-line text-ink-soft"}`} aria-current={run.step === id ? "step" : undefined}>
                 {label}
               </li>

@@ -1,10 +1,11 @@
 import type { EntryCheck } from "~/conformance/report-types";
+import { stepLabel } from "./steps";
 
 const VERDICT: Record<string, string> = { pass: "bg-pass-soft text-pass", warn: "bg-warn-soft text-warn", fail: "bg-fail-soft text-fail" };
 
 function waiting(run: NonNullable<EntryCheck["run"]>): string {
   if (run.state === "queued") return run.queue ? `queued, place ${run.queue.place} in line` : "queued";
-  if (run.state === "running") return run.step ? `running (${run.step})` : "running";
+  if (run.state === "running") return run.step ? `running: ${stepLabel(run.step)}` : "running";
   return run.state;
 }
 
