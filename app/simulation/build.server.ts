@@ -115,12 +115,12 @@ const CLEAN_OBJECTS = "rm -f obj/*.o obj/*.a obj/Vtop";
  * Profile-guided build, measured at about a third faster on designs with case tables (their nested
  * branches are laid out for the paths the picture takes): an instrumented build runs PROFILE_FRAMES frames,
  * then everything is compiled again with the profile. A profiling run that fails only costs the profile.
- * It costs two more compiles, so it is made only when the run is long enough to earn them back: a run
- * estimated at PROFILE_PAYS_AFTER_BUILDS plain builds or more (a quarter of the run saved against two builds
- * spent, with room for the profiling run). Demo-length captures (a second of picture) never are.
+ * It costs two more compiles without the precompiled header and a profiling run — measured at about five plain
+ * builds' time on the demo designs — and saves a quarter to a half of the run, so it is made only when the run is
+ * estimated at PROFILE_PAYS_AFTER_BUILDS plain builds or more. Demo-length captures (a second of picture) never are.
  */
 const PROFILE_FRAMES = 2;
-const PROFILE_PAYS_AFTER_BUILDS = 8;
+const PROFILE_PAYS_AFTER_BUILDS = 12;
 /** Before a model has run, its speed is taken as EDA.md's measurement on a small design here (29–42 M cycles/s). */
 const ASSUMED_CYCLES_PER_SECOND = 30e6;
 const PROFILE_BUILD = `${CLEAN_OBJECTS} && ${COPY_RUNTIME} && ${make("-fprofile-generate", "LDFLAGS=-fprofile-generate")}`;
