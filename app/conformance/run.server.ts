@@ -176,7 +176,7 @@ async function failAttempt(c: Claimed, message: string): Promise<"retry" | "erro
 export async function executeCheckRun(checkRunId: string, opts: { simulate?: boolean } = {}): Promise<CheckRunOutcome> {
   const c = await claim(checkRunId);
   if (typeof c === "string") return c;
-  const workDir = runWorkDir(c.runId);
+  const workDir = runWorkDir(c.runId, c.attempt);
   rmSync(workDir, { recursive: true, force: true });
   mkdirSync(join(workDir, "in"), { recursive: true });
   try {

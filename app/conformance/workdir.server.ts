@@ -11,8 +11,9 @@ import { env } from "~/env.server";
 const RUN_PREFIX = "run-";
 export const STALE_WORK_FOLDER_MS = 24 * 3600 * 1000;
 
-export function runWorkDir(checkRunId: string): string {
-  return resolve(env().WORKDIR, `${RUN_PREFIX}${checkRunId}`);
+/** One folder per attempt: a stalled attempt still running on this machine keeps its own. */
+export function runWorkDir(checkRunId: string, attempt: number): string {
+  return resolve(env().WORKDIR, `${RUN_PREFIX}${checkRunId}-${attempt}`);
 }
 
 export function sweepWorkFolders(root = resolve(env().WORKDIR), now = Date.now(), maxAgeMs = STALE_WORK_FOLDER_MS): string[] {
