@@ -62,7 +62,7 @@ describe("the pipeline with an uploaded capture video", () => {
   }, 120_000);
 
   it("reports the cheap steps before the reference capture, and the first still before the capture ends", async () => {
-    writeFileSync(join(dir, "l.gds"), generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 40, logicCells: 300, seed: 1 }).bytes);
+    writeFileSync(join(dir, "l.gds"), generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 40, logicCells: 300, seed: 1 }).bytes);
     const seen: { report: StepReport; at: number }[] = [];
     let simulationStarted = 0;
     const result = await runPipeline({

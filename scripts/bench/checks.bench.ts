@@ -108,7 +108,7 @@ export async function benchChecks(): Promise<void> {
         slug: d.slug,
         files: [
           { kind: "bundle", filename: `${d.slug}.zip`, bytes: await zipOf({ [`${d.slug}.v`]: readFileSync(designPath(d.slug)) }) },
-          { kind: "layout", filename: `${d.slug}.gds`, bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: d.slug === "copper-sine" ? "2x1" : "1x1", flipFlops: 40 + 10 * i, logicCells: 300 + 40 * i, seed: i + 1, libName: d.slug }).bytes },
+          { kind: "layout", filename: `${d.slug}.gds`, bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: d.slug === "copper-sine" ? "wide" : "single", flipFlops: 40 + 10 * i, logicCells: 300 + 40 * i, seed: i + 1, libName: d.slug }).bytes },
         ],
       });
     }

@@ -60,7 +60,7 @@ afterAll(async () => {
 async function files() {
   return [
     { kind: "bundle" as const, bytes: await mod.archives.zipOf({ "m.v": readFileSync(designPath("munch-squares")) }), filename: "m.zip", mediaType: "application/zip" },
-    { kind: "layout" as const, bytes: mod.layout.generateDemoLayout({ ruleset: mod.rules.DEMO_RULESET, shape: "1x1", flipFlops: 30, logicCells: 200, seed: 3 }).bytes, filename: "m.gds", mediaType: "application/vnd.gdsii" },
+    { kind: "layout" as const, bytes: mod.layout.generateDemoLayout({ ruleset: mod.rules.DEMO_RULESET, shape: "single", flipFlops: 30, logicCells: 200, seed: 3 }).bytes, filename: "m.gds", mediaType: "application/vnd.gdsii" },
   ];
 }
 

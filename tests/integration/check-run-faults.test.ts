@@ -38,7 +38,7 @@ async function uploadOf(files: { video?: Buffer; simulate?: boolean } = {}) {
   const made = await makeCompetitionWithEntry({ eventId: event.id, captainId: captain.id, state: "open" });
   const upload = await makeCompleteUpload(made.entry.id, 1, [
     { kind: "bundle", bytes: await zipOf({ "xor.v": readFileSync(designPath("xor-tide")) }), filename: "xor.zip", mediaType: "application/zip" },
-    { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 30, logicCells: 200, seed: 3 }).bytes, filename: "xor.gds", mediaType: "application/vnd.gdsii" },
+    { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 30, logicCells: 200, seed: 3 }).bytes, filename: "xor.gds", mediaType: "application/vnd.gdsii" },
     ...(files.video ? [{ kind: "video" as const, bytes: files.video, filename: "capture.mp4", mediaType: "video/mp4" }] : []),
   ]);
   return { ...made, upload, runId: await queueCheckRun(upload.id) };
@@ -67,7 +67,7 @@ describe("a check run with one broken file", () => {
     const { upload, runId } = await uploadOf();
     const [layout] = await db().select().from(uploadFiles).where(eq(uploadFiles.uploadId, upload.id)).then((r) => r.filter((f) => f.kind === "layout"));
     // The stored object changes after the receipt was issued (a corrupted or replaced object).
-    await putObject(layout.s3Key, generateDemoLayout({ ruleset: DEMO_RULESET, shape: "1x1", flipFlops: 31, logicCells: 200, seed: 4 }).bytes, "application/vnd.gdsii");
+    await putObject(layout.s3Key, generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 31, logicCells: 200, seed: 4 }).bytes, "application/vnd.gdsii");
     await expect(executeCheckRun(runId, { simulate: false })).resolves.toBe("done");
     const rows = await db().select().from(findings).where(eq(findings.checkRunId, runId));
     const mismatch = rows.find((r) => r.rule === "layout.receipt");

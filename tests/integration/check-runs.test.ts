@@ -94,7 +94,7 @@ describe("a check run in the worker", () => {
   it("shows the source and layout findings and then the first still through the API while the run goes on", async () => {
     const upload = await makeCompleteUpload(setup.entry.id, 2, [
       { kind: "bundle", bytes: await zipOf({ "copper.v": readFileSync(designPath("copper-sine")) }), filename: "copper.zip", mediaType: "application/zip" },
-      { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "2x1", flipFlops: 120, logicCells: 500, seed: 9 }).bytes, filename: "copper.gds", mediaType: "application/vnd.gdsii" },
+      { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "wide", flipFlops: 120, logicCells: 500, seed: 9 }).bytes, filename: "copper.gds", mediaType: "application/vnd.gdsii" },
     ]);
     const runId = await queueCheckRun(upload.id);
     const cookie = await sessionCookie(setup.captain);
