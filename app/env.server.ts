@@ -1,3 +1,4 @@
+import { availableParallelism } from "node:os";
 import { z } from "zod";
 
 /** Every setting Gatecrash reads, validated once at start-up. Defaults work for the local stack of `npm start`. */
@@ -21,6 +22,10 @@ const envSchema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().default("S3RVER"),
   SMTP_HOST: z.string().default("127.0.0.1"),
   SMTP_PORT: z.coerce.number().int().default(1025),
+  /** none: the local catcher; starttls or tls: a real relay (app/mail/outbox.server.ts) */
+  SMTP_SECURITY: z.enum(["none", "starttls", "tls"]).default("none"),
+  SMTP_USER: z.string().default(""),
+  SMTP_PASSWORD: z.string().default(""),
   MAIL_FROM: z.string().default("Gatecrash <no-reply@gatecrash.test>"),
   STRIPE_SECRET_KEY: z.string().default("sk_test_gatecrash_local"),
   STRIPE_WEBHOOK_SECRET: z.string().default("whsec_gatecrash_local_secret"),
@@ -47,6 +52,8 @@ const envSchema = z.object({
   CHECK_RUN_EXPIRE_SECONDS: z.coerce.number().int().min(1).default(15 * 60),
   /** How often the supervising worker expires stalled jobs (pg-boss maintenance; its default is 120 s). */
   QUEUE_MAINTENANCE_SECONDS: z.coerce.number().int().min(1).default(120),
+  /** Check runs one worker process runs at a time; default: one core left for the rest of the machine. */
+  WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(Math.max(1, availableParallelism() - 1)),
 });
 
 export type Env = z.infer<typeof envSchema>;

@@ -1,7 +1,7 @@
 /**
  * `npm run check -- [--ruleset FILE] [--bundle FILE] [--layout FILE] [--video FILE] [--simulate [--frames N]] [--json]`
  * Runs Gatecrash's conformance checks locally with the same pipeline as the worker (default ruleset: the demo
- * compo's). Exit 0 when nothing fails, 1 when a rule fails, 2 when the input cannot be read.
+ * compo's). Exit 0 when nothing fails, 1 when a rule fails (or a step could not finish), 2 when the input cannot be read.
  */
 import { existsSync, mkdtempSync, readFileSync, rmSync, chmodSync } from "node:fs";
 import { tmpdir } from "node:os";
@@ -101,14 +101,15 @@ export async function main(argv: string[]): Promise<number> {
     const frames = args.frames === undefined ? undefined : Number(args.frames);
     if (frames !== undefined && (!Number.isInteger(frames) || frames < 1 || frames > 600)) throw new InputError("--frames must be a whole number from 1 to 600");
     const result = await runPipeline({ ruleset, workDir, bundlePath, layoutPath, videoPath, simulate: args.simulate, frames, encode: false });
-    const unreadable = result.findings.find((f) => f.rule === "layout.read" || f.rule === "intake.not-an-archive" || f.rule === "intake.corrupt");
+    const unreadable = result.findings.find((f) => f.rule === "layout.read" || f.rule === "intake.not-an-archive" || f.rule === "intake.corrupt" || f.rule === "capture.video.unreadable");
     if (args.json) console.log(JSON.stringify(toJson(result), null, 2));
     else printReport(result);
     if (unreadable) {
       console.error(`cannot read the input: ${unreadable.evidence ?? unreadable.title}`);
       return 2;
     }
-    return result.verdict === "fail" ? 1 : 0;
+    for (const e of result.internalErrors) console.error(`Gatecrash could not finish the ${e.step} step: ${e.message}`);
+    return result.verdict === "fail" || result.internalErrors.length > 0 ? 1 : 0;
   } catch (e) {
     if (e instanceof InputError) {
       console.error(e.message);

@@ -5,7 +5,8 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { zipOf } from "../../tests/support/archives";
 import { designPath } from "../../demo/designs/index";
-import { runPipeline, type PipelineResult } from "./pipeline.server";
+import { runPipeline, type PipelineResult, type StepReport } from "./pipeline.server";
+import { generateDemoLayout } from "~/gdsii/demo-layout";
 import { DEMO_RULESET } from "~/rules/ruleset";
 
 /**
@@ -58,5 +59,44 @@ describe("the pipeline with an uploaded capture video", () => {
     expect(result.findings.find((f) => f.rule === "precheck.system-call")?.measured).toBe("$display");
     expect(result.findings.some((f) => f.step === "source" || f.step === "simulation")).toBe(false);
     expect(result.skipped.map((s) => s.step)).toEqual(expect.arrayContaining(["source", "simulation"]));
+  }, 120_000);
+
+  it("reports the cheap steps before the reference capture, and the first still before the capture ends", async () => {
+    writeFileSync(join(dir, "l.gds"), generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 40, logicCells: 300, seed: 1 }).bytes);
+    const seen: { report: StepReport; at: number }[] = [];
+    let simulationStarted = 0;
+    const result = await runPipeline({
+      ruleset: DEMO_RULESET, workDir: join(dir, "w5"), bundlePath: join(dir, "b.zip"), layoutPath: join(dir, "l.gds"), simulate: true, frames: 12, encode: true,
+      onStep: (step) => {
+        if (step === "simulation") simulationStarted = Date.now();
+      },
+      onReport: (report) => {
+        seen.push({ report, at: Date.now() });
+      },
+    });
+    const before = seen.filter((s) => s.at <= simulationStarted).flatMap((s) => s.report.findings.map((f) => f.rule));
+    for (const rule of ["intake.bundle", "precheck.clean", "source.top", "layout.die.size"]) expect(before).toContain(rule);
+    const simulation = seen.filter((s) => s.report.step === "simulation");
+    // two reports of the step: the first still alone, then everything else (the still is not sent twice)
+    expect(simulation).toHaveLength(2);
+    expect(simulation[0].report.artifacts.map((a) => a.kind)).toEqual(["first-frame"]);
+    expect(simulation[0].report.findings).toEqual([]);
+    expect(simulation[1].report.artifacts.map((a) => a.kind)).not.toContain("first-frame");
+    expect(simulation[1].report.artifacts.map((a) => a.kind)).toContain("webm");
+    // PNG signature (ISO/IEC 15948): the early still is a complete PNG file
+    expect(readFileSync(simulation[0].report.artifacts[0].path).subarray(0, 8).toString("hex")).toBe("89504e470d0a1a0a");
+    expect(result.findings.map((f) => f.rule)).toEqual(seen.flatMap((s) => s.report.findings.map((f) => f.rule)));
+    expect(result.internalErrors).toEqual([]);
+  }, 300_000);
+
+  it("turns Gatecrash's own failure in one step into that step's finding and keeps the others", async () => {
+    // A ruleset naming a video mode Gatecrash does not know: a fault on our side, not in the upload.
+    const broken = { ...DEMO_RULESET, videoMode: "not-a-mode" };
+    const result = await runPipeline({ ruleset: broken, workDir: join(dir, "w6"), bundlePath: join(dir, "b.zip"), simulate: true, frames: 2, encode: false });
+    expect(result.internalErrors.map((e) => e.step)).toEqual(["simulation"]);
+    const internal = result.findings.find((f) => f.rule === "simulation.internal");
+    expect(internal?.verdict).toBe("warn");
+    expect(internal?.evidence).toContain("not-a-mode");
+    expect(result.findings.find((f) => f.rule === "source.top")?.verdict).toBe("pass");
   }, 120_000);
 });

@@ -4,13 +4,16 @@ export interface EntryCheck {
   uploadNumber: number;
   run: {
     id: string;
-    state: "queued" | "running" | "done" | "error";
+    /** superseded: a newer upload of the entry came in before this one was checked */
+    state: "queued" | "running" | "done" | "error" | "superseded";
     step: string | null;
     verdict: "pass" | "warn" | "fail" | null;
     figures: Record<string, unknown>;
     error: string | null;
     queuedAt: string;
     finishedAt: string | null;
+    /** while queued: where the entry's check stands in the line (1 = next), and how many checks run now */
+    queue: { place: number; running: number } | null;
   } | null;
   findings: {
     step: string;

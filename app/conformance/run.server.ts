@@ -1,97 +1,216 @@
-import { and, eq, sql } from "drizzle-orm";
-import { mkdirSync, readFileSync, rmSync, createWriteStream } from "node:fs";
-import { join, resolve } from "node:path";
-import { pipeline } from "node:stream/promises";
-import { db } from "~/db/client.server";
-import { artifacts, checkRuns, competitions, entries, findings, uploadFiles, uploads } from "~/db/schema";
-import { env } from "~/env.server";
-import { getObjectStream, putObject } from "~/storage/s3.server";
+import { and, desc, eq, inArray, ne, sql } from "drizzle-orm";
+import { mkdirSync, readFileSync, rmSync } from "node:fs";
+import { join } from "node:path";
+import { db, type Db } from "~/db/client.server";
+import { artifacts, checkRuns, competitions, entries, findings, uploads } from "~/db/schema";
+import { worstVerdict, type CheckStep, type Finding } from "~/rules/findings";
 import { parseRuleset } from "~/rules/ruleset";
-import { runPipeline } from "./pipeline.server";
-
-const EXT: Record<string, string> = { bundle: "archive", layout: "gds", video: "video", still: "img" };
+import { putObject } from "~/storage/s3.server";
+import { fetchUploadInputs } from "./inputs.server";
+import { requeueCheckRun } from "./queue.server";
+import { runPipeline, type StepReport } from "./pipeline.server";
+import { runWorkDir } from "./workdir.server";
 
 /**
- * The worker's side of a check run: fetch the upload's files from S3 into a fresh folder, run the pipeline,
- * store findings, figures and artifacts. Safe to run again (a retry after a killed worker replaces what a
- * half-finished attempt wrote); a run that is already done is left alone, so it finishes exactly once.
+ * The worker's side of a check run. A job names a run; the worker checks the newest counting upload of that
+ * run's entry (older queued runs are marked superseded and never cost a build). Each attempt is numbered, and
+ * every write of an attempt is fenced on that number, so a stalled attempt that pg-boss handed to another worker
+ * cannot mix its results into the new one. Findings, figures and artifacts are written step by step as the
+ * pipeline reports them; the run is done, or tried again when Gatecrash (not the upload) failed a step.
  */
-export async function executeCheckRun(checkRunId: string, opts: { simulate?: boolean } = {}): Promise<"done" | "skipped"> {
-  const [row] = await db()
-    .select({ run: checkRuns, uploadId: uploads.id, ruleset: competitions.ruleset })
-    .from(checkRuns)
-    .innerJoin(uploads, eq(uploads.id, checkRuns.uploadId))
-    .innerJoin(entries, eq(entries.id, uploads.entryId))
-    .innerJoin(competitions, eq(competitions.id, entries.competitionId))
-    .where(eq(checkRuns.id, checkRunId));
-  if (!row || row.run.state === "done") return "skipped";
+export const MAX_CHECK_ATTEMPTS = 3;
 
-  await db()
-    .update(checkRuns)
-    .set({ state: "running", step: "intake", attempts: sql`${checkRuns.attempts} + 1`, startedAt: new Date(), error: null })
-    .where(eq(checkRuns.id, checkRunId));
+export type CheckRunOutcome =
+  /** finished (its findings may well fail the entry) */
+  | "done"
+  /** nothing to do: already finished, or another attempt owns it now */
+  | "skipped"
+  /** a newer upload of the entry came in; this one is never checked */
+  | "superseded"
+  /** Gatecrash failed a step; the run is back in the queue, behind every first attempt */
+  | "retry"
+  /** Gatecrash failed a step on the last attempt; the findings of the other steps stay */
+  | "error";
 
-  const workDir = resolve(env().WORKDIR, `run-${checkRunId}`);
+type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+
+class Superseded extends Error {}
+class StaleAttempt extends Error {}
+
+interface Claimed {
+  runId: string;
+  attempt: number;
+  uploadId: string;
+  entryId: string;
+  ruleset: unknown;
+}
+
+async function newestUploadOf(tx: Db | Tx, entryId: string): Promise<string | null> {
+  const [u] = await tx
+    .select({ id: uploads.id })
+    .from(uploads)
+    .where(and(eq(uploads.entryId, entryId), eq(uploads.state, "complete")))
+    .orderBy(desc(uploads.number))
+    .limit(1);
+  return u?.id ?? null;
+}
+
+/**
+ * Picks the run this job should execute and starts a new attempt of it. The job's own run when its upload is
+ * still the newest; else the newest upload's run, if that one still waits. Older waiting runs become superseded.
+ */
+async function claim(checkRunId: string): Promise<Claimed | "skipped" | "superseded"> {
+  return db().transaction(async (tx) => {
+    const [row] = await tx
+      .select({ entryId: uploads.entryId })
+      .from(checkRuns)
+      .innerJoin(uploads, eq(uploads.id, checkRuns.uploadId))
+      .where(eq(checkRuns.id, checkRunId));
+    if (!row) return "skipped";
+    // One entry's runs are claimed one at a time (two workers may hold jobs of the same entry).
+    await tx.select({ id: entries.id }).from(entries).where(eq(entries.id, row.entryId)).for("update");
+    const newest = await newestUploadOf(tx, row.entryId);
+    const older = tx.select({ id: uploads.id }).from(uploads).where(and(eq(uploads.entryId, row.entryId), newest ? ne(uploads.id, newest) : sql`true`));
+    await tx
+      .update(checkRuns)
+      .set({ state: "superseded", step: null, finishedAt: new Date() })
+      .where(and(eq(checkRuns.state, "queued"), inArray(checkRuns.uploadId, older)));
+    if (!newest) return "superseded";
+    const [target] = await tx
+      .select({ run: checkRuns, ruleset: competitions.ruleset })
+      .from(checkRuns)
+      .innerJoin(uploads, eq(uploads.id, checkRuns.uploadId))
+      .innerJoin(entries, eq(entries.id, uploads.entryId))
+      .innerJoin(competitions, eq(competitions.id, entries.competitionId))
+      .where(eq(checkRuns.uploadId, newest))
+      .orderBy(desc(checkRuns.queuedAt))
+      .limit(1)
+      .for("update", { of: checkRuns });
+    if (!target) return "superseded";
+    const mine = target.run.id === checkRunId;
+    // Another job's run: take it only while it waits (a running one has its own worker).
+    const takeable = mine ? target.run.state === "queued" || target.run.state === "running" : target.run.state === "queued";
+    if (!takeable) return mine ? "skipped" : "superseded";
+    const [started] = await tx
+      .update(checkRuns)
+      .set({ state: "running", step: null, attempts: sql`${checkRuns.attempts} + 1`, startedAt: new Date(), error: null, verdict: null, figures: {} })
+      .where(eq(checkRuns.id, target.run.id))
+      .returning({ attempts: checkRuns.attempts });
+    // What an earlier attempt wrote goes; this attempt writes everything again.
+    await tx.delete(findings).where(eq(findings.checkRunId, target.run.id));
+    await tx.delete(artifacts).where(eq(artifacts.checkRunId, target.run.id));
+    return { runId: target.run.id, attempt: started.attempts, uploadId: newest, entryId: row.entryId, ruleset: target.ruleset };
+  });
+}
+
+/** Runs `write` only while this attempt still owns the run. */
+function fenced<T>(c: Claimed, write: (tx: Tx) => Promise<T>): Promise<T> {
+  return db().transaction(async (tx) => {
+    const [now] = await tx.select({ attempts: checkRuns.attempts, state: checkRuns.state }).from(checkRuns).where(eq(checkRuns.id, c.runId)).for("update");
+    if (!now || now.attempts !== c.attempt || now.state !== "running") throw new StaleAttempt();
+    return write(tx);
+  });
+}
+
+function findingRows(c: Claimed, list: Finding[], from: number) {
+  return list.map((f, i) => ({
+    checkRunId: c.runId,
+    position: from + i,
+    step: f.step,
+    rule: f.rule,
+    verdict: f.verdict,
+    title: f.title,
+    measured: f.measured == null ? null : String(f.measured),
+    limitValue: f.limit == null ? null : String(f.limit),
+    evidence: f.evidence ?? null,
+    advice: f.advice ?? null,
+  }));
+}
+
+/** Writes one step's results as they arrive, so the entry page shows them while later steps still run. */
+function stepWriter(c: Claimed) {
+  let position = 0;
+  const skipped: StepReport["skipped"] = [];
+  return async (report: StepReport): Promise<void> => {
+    const stored: (typeof artifacts.$inferInsert)[] = [];
+    for (const a of report.artifacts) {
+      const key = `artifacts/${c.runId}/${a.kind}`;
+      const put = await putObject(key, readFileSync(a.path), a.mediaType);
+      stored.push({ checkRunId: c.runId, kind: a.kind, s3Key: key, mediaType: a.mediaType, sizeBytes: put.size, sha256: put.sha256 });
+    }
+    skipped.push(...report.skipped);
+    const rows = findingRows(c, report.findings, position);
+    position += rows.length;
+    await fenced(c, async (tx) => {
+      if (rows.length) await tx.insert(findings).values(rows);
+      if (stored.length) await tx.insert(artifacts).values(stored);
+      const figures = { ...report.figures, skipped };
+      await tx.update(checkRuns).set({ figures: sql`${checkRuns.figures} || ${JSON.stringify(figures)}::jsonb` }).where(eq(checkRuns.id, c.runId));
+    });
+  };
+}
+
+async function enterStep(c: Claimed, step: CheckStep): Promise<void> {
+  if ((await newestUploadOf(db(), c.entryId)) !== c.uploadId) throw new Superseded();
+  await fenced(c, (tx) => tx.update(checkRuns).set({ step }).where(eq(checkRuns.id, c.runId)));
+}
+
+/** Gatecrash failed this attempt: back in the queue while attempts are left, else an error (findings kept). */
+async function failAttempt(c: Claimed, message: string): Promise<"retry" | "error"> {
+  const last = c.attempt >= MAX_CHECK_ATTEMPTS;
+  await fenced(c, (tx) =>
+    tx
+      .update(checkRuns)
+      .set(
+        last
+          ? { state: "error", step: null, error: message.slice(0, 2000), finishedAt: new Date() }
+          : { state: "queued", step: null, error: `attempt ${c.attempt} of ${MAX_CHECK_ATTEMPTS} failed (${message.slice(0, 1800)}); it is tried again` },
+      )
+      .where(eq(checkRuns.id, c.runId)),
+  );
+  if (last) return "error";
+  await requeueCheckRun(c.runId);
+  return "retry";
+}
+
+export async function executeCheckRun(checkRunId: string, opts: { simulate?: boolean } = {}): Promise<CheckRunOutcome> {
+  const c = await claim(checkRunId);
+  if (typeof c === "string") return c;
+  const workDir = runWorkDir(c.runId, c.attempt);
   rmSync(workDir, { recursive: true, force: true });
   mkdirSync(join(workDir, "in"), { recursive: true });
   try {
-    const files = await db().select().from(uploadFiles).where(and(eq(uploadFiles.uploadId, row.uploadId), eq(uploadFiles.state, "confirmed")));
-    const local: Record<string, string> = {};
-    for (const f of files) {
-      const path = join(workDir, "in", `${f.kind}.${EXT[f.kind]}`);
-      await pipeline(await getObjectStream(f.s3Key), createWriteStream(path));
-      local[f.kind] = path;
-    }
+    const inputs = await fetchUploadInputs(c.uploadId, join(workDir, "in"));
     const result = await runPipeline({
-      ruleset: parseRuleset(row.ruleset),
+      ruleset: parseRuleset(c.ruleset),
       workDir: join(workDir, "work"),
-      bundlePath: local.bundle,
-      layoutPath: local.layout,
-      videoPath: local.video,
+      bundlePath: inputs.paths.bundle,
+      layoutPath: inputs.paths.layout,
+      videoPath: inputs.paths.video,
+      refused: inputs.refused,
       simulate: opts.simulate ?? true,
-      onStep: async (step) => {
-        await db().update(checkRuns).set({ step }).where(eq(checkRuns.id, checkRunId));
-      },
+      onStep: (step) => enterStep(c, step),
+      onReport: stepWriter(c),
     });
-    const stored: (typeof artifacts.$inferInsert)[] = [];
-    for (const a of result.artifacts) {
-      const key = `artifacts/${checkRunId}/${a.kind}`;
-      const put = await putObject(key, readFileSync(a.path), a.mediaType);
-      stored.push({ checkRunId, kind: a.kind, s3Key: key, mediaType: a.mediaType, sizeBytes: put.size, sha256: put.sha256 });
+    if (result.internalErrors.length) {
+      return await failAttempt(c, result.internalErrors.map((e) => `${e.step}: ${e.message}`).join("; "));
     }
-    const outcome = await db().transaction(async (tx) => {
-      // A second attempt (a re-delivered job while a stalled one still ran) waits here and then finds the run done.
-      const [locked] = await tx.select({ state: checkRuns.state }).from(checkRuns).where(eq(checkRuns.id, checkRunId)).for("update");
-      if (!locked || locked.state === "done") return "skipped" as const;
-      await tx.delete(findings).where(eq(findings.checkRunId, checkRunId));
-      await tx.delete(artifacts).where(eq(artifacts.checkRunId, checkRunId));
-      if (result.findings.length)
-        await tx.insert(findings).values(
-          result.findings.map((f, i) => ({
-            checkRunId,
-            position: i,
-            step: f.step,
-            rule: f.rule,
-            verdict: f.verdict,
-            title: f.title,
-            measured: f.measured == null ? null : String(f.measured),
-            limitValue: f.limit == null ? null : String(f.limit),
-            evidence: f.evidence ?? null,
-            advice: f.advice ?? null,
-          })),
-        );
-      if (stored.length) await tx.insert(artifacts).values(stored);
-      await tx
-        .update(checkRuns)
-        .set({ state: "done", step: null, verdict: result.verdict, figures: { ...result.figures, skipped: result.skipped }, finishedAt: new Date() })
-        .where(eq(checkRuns.id, checkRunId));
-      return "done" as const;
-    });
-    rmSync(workDir, { recursive: true, force: true });
-    return outcome;
+    await fenced(c, (tx) =>
+      tx.update(checkRuns).set({ state: "done", step: null, verdict: worstVerdict(result.findings), finishedAt: new Date() }).where(eq(checkRuns.id, c.runId)),
+    );
+    return "done";
   } catch (e) {
-    const message = e instanceof Error ? e.message : String(e);
-    await db().update(checkRuns).set({ state: "error", error: message.slice(0, 2000), finishedAt: new Date() }).where(eq(checkRuns.id, checkRunId));
-    throw e;
+    if (e instanceof StaleAttempt) return "skipped";
+    if (e instanceof Superseded) {
+      await fenced(c, (tx) => tx.update(checkRuns).set({ state: "superseded", step: null, finishedAt: new Date() }).where(eq(checkRuns.id, c.runId))).catch((stale: unknown) => {
+        if (!(stale instanceof StaleAttempt)) throw stale;
+      });
+      return "superseded";
+    }
+    // The store, the database or Gatecrash's own code failed outside any step: recorded, then tried again.
+    // If even the record cannot be written, the error goes to pg-boss, which retries the job.
+    return await failAttempt(c, e instanceof Error ? e.message : String(e));
+  } finally {
+    rmSync(workDir, { recursive: true, force: true });
   }
 }

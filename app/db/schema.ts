@@ -305,7 +305,7 @@ export const uploadFiles = pgTable(
 );
 
 // ---------- conformance ----------
-export const checkRunStateEnum = pgEnum("check_run_state", ["queued", "running", "done", "error"]);
+export const checkRunStateEnum = pgEnum("check_run_state", ["queued", "running", "done", "error", "superseded"]);
 export const verdictEnum = pgEnum("verdict", ["pass", "warn", "fail"]);
 
 export const checkRuns = pgTable(

@@ -22,10 +22,25 @@ export async function enqueueMail(mail: Mail): Promise<string | null> {
   return row.id;
 }
 
+/**
+ * nodemailer's options for the configured relay: the local catcher speaks plain SMTP; a real relay gets TLS from
+ * the first byte ("tls", usually port 465) or after STARTTLS, which is then required ("starttls", usually 587),
+ * so credentials never cross the network in clear text. SMTP_USER turns authentication on.
+ */
+export function smtpOptions(e: Pick<ReturnType<typeof env>, "SMTP_HOST" | "SMTP_PORT" | "SMTP_SECURITY" | "SMTP_USER" | "SMTP_PASSWORD">) {
+  return {
+    host: e.SMTP_HOST,
+    port: e.SMTP_PORT,
+    secure: e.SMTP_SECURITY === "tls",
+    requireTLS: e.SMTP_SECURITY === "starttls",
+    ignoreTLS: e.SMTP_SECURITY === "none",
+    ...(e.SMTP_USER ? { auth: { user: e.SMTP_USER, pass: e.SMTP_PASSWORD } } : {}),
+  };
+}
+
 let transport: Transporter | undefined;
 function smtp() {
-  const e = env();
-  transport ??= nodemailer.createTransport({ host: e.SMTP_HOST, port: e.SMTP_PORT, secure: false, ignoreTLS: true });
+  transport ??= nodemailer.createTransport(smtpOptions(env()));
   return transport;
 }
 

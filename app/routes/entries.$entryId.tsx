@@ -3,6 +3,8 @@ import { z } from "zod";
 import { requireUser } from "~/auth/guards.server";
 import type { RequestContext } from "~/auth/guards.server";
 import { CheckRunPanel } from "~/components/conformance/CheckRunPanel";
+import { LatestCheckLine } from "~/components/conformance/LatestCheckLine";
+import { useLiveCheck } from "~/components/conformance/useLiveCheck";
 import { UploadCountdown } from "~/components/UploadCountdown";
 import { UploadList } from "~/components/UploadList";
 import { UploadPanel } from "~/components/UploadPanel";
@@ -44,7 +46,6 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     limits: Object.fromEntries(FILE_KINDS.map((k) => [k, limitFor(k, ruleset)])) as Record<FileKind, number>,
     uploads: await uploadsOfEntry(entry.id),
     payments: (await paymentsOfEntry(entry.id)).map((p) => ({ ...p, createdAt: p.createdAt.toISOString(), amountText: formatMoney(p.amount, p.currency) })),
-    check: check && { uploadNumber: check.uploadNumber, state: check.run?.state ?? null, verdict: check.run?.verdict ?? null, fails: check.findings.filter((f) => f.verdict === "fail").length, warns: check.findings.filter((f) => f.verdict === "warn").length },
     feeNotice: feeNotice === "returned" || feeNotice === "cancelled" ? feeNotice : null,
     report: check,
     videoMode: ruleset.videoMode,
@@ -71,11 +72,10 @@ const FEE_TEXT: Record<string, { label: string; cls: string }> = {
   refunded: { label: "Fee refunded", cls: "bg-violet-soft text-violet" },
 };
 
-const VERDICT: Record<string, string> = { pass: "bg-pass-soft text-pass", warn: "bg-warn-soft text-warn", fail: "bg-fail-soft text-fail" };
-
 export default function EntryDashboard({ loaderData, actionData }: Route.ComponentProps) {
   const d = loaderData;
   const revalidator = useRevalidator();
+  const live = useLiveCheck(d.entry.id, d.report);
   const fee = FEE_TEXT[d.entry.feeState];
   const crewView = d.viewer === "crew";
   return (
@@ -96,16 +96,7 @@ export default function EntryDashboard({ loaderData, actionData }: Route.Compone
           <p className="mt-1 text-lg font-bold" data-testid="entry-state">{d.entry.state === "active" ? "Active" : d.entry.state}</p>
           {d.entry.disqualifiedReason && <p className="text-sm text-fail">{d.entry.disqualifiedReason}</p>}
           <p className="mt-2 text-sm text-ink-soft">
-            Latest check:{" "}
-            {d.check?.verdict ? (
-              <span className={`rounded-full px-2 py-0.5 text-xs font-semibold ${VERDICT[d.check.verdict]}`} data-testid="check-verdict">
-                {d.check.verdict} · upload #{d.check.uploadNumber} · {d.check.fails} fail, {d.check.warns} warn
-              </span>
-            ) : d.check ? (
-              <span data-testid="check-verdict">{d.check.state ?? "not queued"} (upload #{d.check.uploadNumber})</span>
-            ) : (
-              <span data-testid="check-verdict">no upload yet</span>
-            )}
+            Latest check: <LatestCheckLine check={live.check} />
           </p>
         </div>
         <div className="card">
@@ -149,8 +140,7 @@ export default function EntryDashboard({ loaderData, actionData }: Route.Compone
       </div>
 
       <div className="mt-8">
-        {/* Remounts when a new upload brings a new run, so the panel starts polling that one. */}
-        <CheckRunPanel key={d.report?.run?.id ?? "none"} entryId={d.entry.id} initial={d.report} videoMode={d.videoMode} />
+        <CheckRunPanel check={live.check} offline={live.offline} videoMode={d.videoMode} />
       </div>
     </div>
   );

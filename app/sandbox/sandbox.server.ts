@@ -32,6 +32,8 @@ export interface SandboxRequest {
   limits?: Partial<SandboxLimits>;
   /** Cap on captured stdout/stderr, each; the rest is dropped and `truncated` set. */
   maxOutputBytes?: number;
+  /** Host folders of Gatecrash's own (never an upload's) shown read-only inside, e.g. a precompiled header. */
+  readOnly?: { host: string; inside: string }[];
 }
 
 export interface SandboxResult {
@@ -71,6 +73,7 @@ export function sandboxArgv(req: SandboxRequest): string[] {
     "--dev", "/dev",
     "--tmpfs", "/tmp",
     "--bind", req.buildDir, "/build",
+    ...(req.readOnly ?? []).flatMap((m) => ["--ro-bind", m.host, m.inside]),
     "--unshare-all",
     "--die-with-parent",
     "--new-session",

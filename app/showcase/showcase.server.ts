@@ -52,7 +52,7 @@ export interface ShowcaseEntry {
   crew: string | null;
   /** 1-based place in the shared presentation order. */
   position: number;
-  check: { state: "none" | "queued" | "running" | "done" | "error"; verdict: "pass" | "warn" | "fail" | null };
+  check: { state: "none" | "queued" | "running" | "done" | "error" | "superseded"; verdict: "pass" | "warn" | "fail" | null };
   flash: FlashSummary;
   stats: PublicStats;
   media: ShowcaseMedia;

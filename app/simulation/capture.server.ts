@@ -29,7 +29,9 @@ export interface ReferenceCaptureRequest {
   encode?: boolean;
   /** see SimulationRequest */
   forceBothEdges?: boolean;
-  profileGuided?: boolean;
+  profileGuided?: boolean | "auto";
+  /** The first frame as a PNG, as soon as it is drawn (the run goes on meanwhile), e.g. to show it early. */
+  onFirstFrame?: (png: Buffer) => void;
 }
 
 export interface ReferenceCapture {
@@ -58,6 +60,8 @@ export interface ReferenceCapture {
     /** "rising-only" when the falling clock edge could be skipped (edge-mode.ts) */
     edgeMode: EdgeMode;
     profileGuided: boolean;
+    /** the compiled model came from the model cache */
+    modelCached: boolean;
   } | null;
   flash: FlashReport | null;
   /** 32×24 luma per frame, for comparing an uploaded capture (compare-video.server.ts) */
@@ -103,7 +107,10 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
     frames,
     watchFrames: (path, ended) => followFrames(path, mode.h.active, mode.v.active, ended, (img, i) => {
       digest.push(img, i);
-      if (i === 0) firstPng = encodePng(img); // while the run goes on; written out after it
+      if (i === 0) {
+        firstPng = encodePng(img); // while the run goes on; written out after it
+        req.onFirstFrame?.(firstPng);
+      }
     }),
   });
   if (!outcome.ok) {
@@ -138,6 +145,7 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
       runMs: outcome.run.runMs,
       edgeMode: outcome.run.edgeMode,
       profileGuided: outcome.run.profileGuided,
+      modelCached: outcome.run.modelCached,
     },
   };
 

@@ -14,3 +14,10 @@ export async function applyMigrations(url: string): Promise<void> {
     await sql.end({ timeout: 5 });
   }
 }
+
+// `npx tsx scripts/lib/migrate.ts`: once per release, against the production database (DATABASE_URL).
+if (import.meta.url === `file://${process.argv[1]}`) {
+  const { env } = await import("~/env.server");
+  await applyMigrations(env().DATABASE_URL);
+  console.log("migrations applied");
+}

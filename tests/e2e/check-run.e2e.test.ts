@@ -28,11 +28,16 @@ describe("the live check report on the entry page", () => {
     await page.goto(`/entries/${entry.id}`);
     const panel = page.getByTestId("check-run-panel");
     await panel.waitFor();
+    const header = page.getByTestId("check-verdict");
     // The worker of the test stack takes the job; the panel polls the JSON API until the run is done.
     await page.locator('[data-testid="check-run-panel"][data-state="done"]').waitFor({ timeout: 180_000 });
     await expect(panel.locator('[data-rule="video.hsync.period"][data-verdict="pass"]').count()).resolves.toBe(1);
     await expect(panel.locator('[data-rule="layout.die.size"][data-verdict="pass"]').count()).resolves.toBe(1);
     await expect(panel.getByText(/not signoff/).count()).resolves.toBe(1);
+    // the page's header card, rendered while the run was queued, follows the same live state without a reload
+    await header.filter({ hasText: /^(pass|warn) · upload #1 · 0 fail/ }).waitFor({ timeout: 10_000 });
+    const shown = (await panel.locator("header").textContent()) ?? "";
+    expect(shown.toLowerCase()).toContain(((await header.textContent()) ?? "").split(" ")[0] === "pass" ? "pass" : "warning");
     await expect(panel.locator("video").count()).resolves.toBe(0);
     await panel.getByRole("button", { name: /I understand/ }).click();
     await panel.getByTestId("player-video").waitFor();

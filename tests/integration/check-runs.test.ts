@@ -90,4 +90,33 @@ describe("a check run in the worker", () => {
     const anonymous = await callRoute(artifactRoute.loader, request(`/artifacts/${mine.id}`), { artifactId: mine.id });
     expect(anonymous.status).toBe(404);
   });
+
+  it("shows the source and layout findings and then the first still through the API while the run goes on", async () => {
+    const upload = await makeCompleteUpload(setup.entry.id, 2, [
+      { kind: "bundle", bytes: await zipOf({ "copper.v": readFileSync(designPath("copper-sine")) }), filename: "copper.zip", mediaType: "application/zip" },
+      { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "wide", flipFlops: 120, logicCells: 500, seed: 9 }).bytes, filename: "copper.gds", mediaType: "application/vnd.gdsii" },
+    ]);
+    const runId = await queueCheckRun(upload.id);
+    const cookie = await sessionCookie(setup.captain);
+    type Check = { run: { id: string; state: string; step: string | null }; findings: { rule: string }[]; artifacts: Record<string, unknown> };
+    const seen: Check[] = [];
+    const running = executeCheckRun(runId);
+    let finished = false;
+    void running.finally(() => (finished = true));
+    while (!finished) {
+      const res = (await checksApi.loader({ request: request(`/api/checks/${setup.entry.id}`, { cookie }), params: { entryId: setup.entry.id }, context: {} } as never)) as Response;
+      const body = (await res.json()) as { check: Check };
+      if (body.check.run.id === runId) seen.push(body.check);
+      await new Promise((r) => setTimeout(r, 50));
+    }
+    expect(await running).toBe("done");
+    const rules = (c: Check) => c.findings.map((f) => f.rule);
+    // source and layout findings while the reference capture is still being made (no timing finding yet)
+    const early = seen.find((c) => c.run.state === "running" && rules(c).includes("source.top") && rules(c).includes("layout.die.size"));
+    expect(early, JSON.stringify(seen.map((c) => [c.run.state, c.run.step, c.findings.length]))).toBeDefined();
+    expect(rules(early!)).not.toContain("video.hsync.period");
+    // the first still before the preview videos
+    const still = seen.find((c) => c.run.state === "running" && c.artifacts["first-frame"] && !c.artifacts.webm);
+    expect(still).toBeDefined();
+  }, 240_000);
 });

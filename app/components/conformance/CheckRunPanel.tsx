@@ -1,56 +1,36 @@
-import { useEffect, useState } from "react";
 import type { EntryCheck } from "~/conformance/report-types";
 import { flashSummary } from "~/showcase/figures";
 import { AudioCaution, PlayerGate } from "../PlayerGate";
 import { FindingsTable } from "./FindingsTable";
 import { LayoutViewer } from "./LayoutViewer";
 import { TimingTable, type SpeedFigures, type VideoFigures } from "./TimingTable";
+import { CHECK_STEPS } from "./steps";
 import { VerdictBadge } from "./VerdictBadge";
 
-const STEPS = [
-  ["intake", "Unpack"],
-  ["precheck", "Pre-check"],
-  ["source", "yosys"],
-  ["layout", "Layout"],
-  ["simulation", "Simulate"],
-  ["capture", "Capture video"],
-] as const;
+
+/** "place 3 in line, 2 checks running now" */
+function QueueLine({ queue }: { queue: { place: number; running: number } | null }) {
+  // queued with no job waiting: a worker has just taken it
+  if (!queue) return <p className="text-sm text-ink-soft" data-testid="queue-place">Starting…</p>;
+  return (
+    <p className="text-sm text-ink-soft" data-testid="queue-place" data-place={queue.place}>
+      {queue.place === 1 ? "Next in line" : `Place ${queue.place} in line`}
+      {queue.running > 0 && ` · ${queue.running} ${queue.running === 1 ? "check" : "checks"} running now`}. One place per entry: a newer upload takes its older one's place.
+    </p>
+  );
+}
 
 /**
- * The entry's conformance report, live: while the run is queued or running the panel asks the JSON API every
- * two seconds and shows the step it is on; then it shows the report, the reference capture and the figures.
+ * The entry's conformance report as it grows: the place in the queue while it waits, the step it is on and every
+ * finding so far while it runs (the cheap steps report before the reference capture is built, the first still
+ * appears as soon as the simulated design draws it), then the whole report. The page keeps `check` live
+ * (useLiveCheck), so this panel and the page's header always show the same state.
  */
-export function CheckRunPanel({ entryId, initial, videoMode }: { entryId: string; initial: EntryCheck | null; videoMode: string }) {
-  const [check, setCheck] = useState(initial);
-  const [offline, setOffline] = useState(false);
-  const active = check?.run?.state === "queued" || check?.run?.state === "running";
-
-  useEffect(() => {
-    if (!active) return;
-    let stopped = false;
-    const timer = setTimeout(async () => {
-      try {
-        const res = await fetch(`/api/checks/${entryId}`, { headers: { accept: "application/json" } });
-        if (!res.ok) throw new Error(String(res.status));
-        const body = (await res.json()) as { check: EntryCheck | null };
-        if (!stopped) {
-          setCheck(body.check);
-          setOffline(false);
-        }
-      } catch {
-        // A dropped connection: keep what we have and ask again on the next tick.
-        if (!stopped) setOffline(true);
-      }
-    }, 2000);
-    return () => {
-      stopped = true;
-      clearTimeout(timer);
-    };
-  }, [active, check, entryId]);
-
+export function CheckRunPanel({ check, offline, videoMode }: { check: EntryCheck | null; offline: boolean; videoMode: string }) {
   if (!check) return <p className="text-mute">No upload yet: upload a source bundle and a layout to get a check report within seconds.</p>;
   const run = check.run;
   if (!run) return <p className="text-mute">Upload {check.uploadNumber} is waiting for its check run.</p>;
+  const active = run.state === "queued" || run.state === "running";
 
   const fig = run.figures as {
     video?: VideoFigures | null;
@@ -60,6 +40,7 @@ export function CheckRunPanel({ entryId, initial, videoMode }: { entryId: string
   };
   const a = check.artifacts;
   const flash = flashSummary(run.figures);
+  const settled = run.state === "done" || run.state === "error";
   return (
     <section aria-labelledby="check-title" className="card space-y-6" data-testid="check-run-panel" data-state={run.state}>
       <header className="flex flex-wrap items-center gap-3">
@@ -71,24 +52,34 @@ export function CheckRunPanel({ entryId, initial, videoMode }: { entryId: string
       </header>
 
       {active && (
-        <ol className="flex flex-wrap gap-2" aria-label="Check progress" aria-live="polite">
-          <li className={`rounded-full px-3 py-1 text-xs font-semibold ${run.state === "queued" ? "bg-signal text-white" : "bg-line text-ink-soft"}`}>Queued</li>
-          {STEPS.map(([id, label]) => (
-            <li key={id} className={`rounded-full px-3 py-1 text-xs font-semibold ${run.step === id ? "bg-signal text-white" : "bg-line text-ink-soft"}`} aria-current={run.step === id ? "step" : undefined}>
-              {label}
-            </li>
-          ))}
-        </ol>
+        <div className="space-y-2">
+          <ol className="flex flex-wrap gap-2" aria-label="Check progress" aria-live="polite">
+            <li className={`rounded-full px-3 py-1 text-xs font-semibold ${run.state === "queued" ? "bg-signal text-white" : "bg-line text-ink-soft"}`}>Queued</li>
+            {CHECK_STEPS.map(([id, label]) => (
+              <li key={id} className={`rounded-full px-3 py-1 text-xs font-semibold ${run.step === id ? "bg-signal text-white" : "bg-line text-ink-soft"}`} aria-current={run.step === id ? "step" : undefined}>
+                {label}
+              </li>
+            ))}
+          </ol>
+          {run.state === "queued" && <QueueLine queue={run.queue} />}
+          {run.state === "queued" && run.error && <p className="text-sm text-warn">The last attempt failed on Gatecrash's side; it is tried again by itself.</p>}
+        </div>
       )}
       {run.state === "error" && (
         <p role="alert" className="rounded-md border border-fail bg-fail-soft p-3 text-sm text-fail">
-          The check could not finish ({run.error}). Gatecrash retries it by itself; if it keeps failing, the organizers can see it too.
+          Gatecrash could not finish this check after several attempts ({run.error}). The findings below stand; the organizers can see this too.
         </p>
       )}
+      {run.state === "superseded" && <p className="text-sm text-mute">A newer upload came in before this one was checked, so it was not checked.</p>}
 
-      {run.state === "done" && (
+      {check.findings.length > 0 && (
         <>
+          {active && <p className="text-sm text-ink-soft" data-testid="partial-report">Findings so far — more follow as the check goes on.</p>}
           <FindingsTable findings={check.findings} />
+        </>
+      )}
+      {settled && (
+        <>
           {fig.skipped && fig.skipped.length > 0 && (
             <ul className="text-sm text-mute">
               {fig.skipped.map((s) => (

@@ -16,6 +16,7 @@ export interface SpeedFigures {
   /** absent in runs made before these were recorded */
   edgeMode?: "rising-only" | "both-edges";
   profileGuided?: boolean;
+  modelCached?: boolean;
 }
 
 function buildNote(speed: SpeedFigures): string {
@@ -23,6 +24,7 @@ function buildNote(speed: SpeedFigures): string {
     speed.edgeMode === "rising-only" ? "only the rising clock edge evaluated, as nothing in the design reacts to the falling one" : null,
     speed.edgeMode === "both-edges" ? "both clock edges evaluated" : null,
     speed.profileGuided ? "model compiled with a profile of its own first frames" : null,
+    speed.modelCached ? "compiled model reused from an earlier check of the same design" : null,
   ].filter(Boolean);
   return notes.length ? ` Build: ${notes.join("; ")}.` : "";
 }

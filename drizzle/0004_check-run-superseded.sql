@@ -1,0 +1,1 @@
+ALTER TYPE "public"."check_run_state" ADD VALUE 'superseded';
