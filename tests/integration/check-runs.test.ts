@@ -104,7 +104,7 @@ describe("a check run in the worker", () => {
     let finished = false;
     void running.finally(() => (finished = true));
     while (!finished) {
-      const res = (await checksApi.loader({ request: request(`/api/checks/${setup.entry.id}`, { cookie }), params: { entryId: setup.entry.id }, context: {} } as never)) as Response;
+      const res = (await checksApi.loader((await routeArgs(request(`/api/checks/${setup.entry.id}`, { cookie }), { entryId: setup.entry.id })) as never)) as Response;
       const body = (await res.json()) as { check: Check };
       if (body.check.run.id === runId) seen.push(body.check);
       await new Promise((r) => setTimeout(r, 50));
