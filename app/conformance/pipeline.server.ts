@@ -3,6 +3,7 @@ import { join } from "node:path";
 import { GdsiiError } from "~/gdsii/errors";
 import { readLayoutFile } from "~/gdsii/reader.server";
 import { checkLayout } from "~/layout/check-layout";
+import { layoutMatchesSource, type SourceSide } from "~/layout/matches-source";
 import { layoutPictureSvg } from "~/layout/layout-picture";
 import { layoutThumbnailPng } from "~/layout/layout-thumbnail";
 import { BundleError, extractBundle } from "~/sources/intake.server";
@@ -94,6 +95,7 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
 
   // 2. Pre-check, then 3. yosys — only on a bundle that unpacked
   let sourceClean = false;
+  let synthesized: SourceSide | null = null;
   if (sourceDir && verilogFiles.length > 0) {
     await input.onStep?.("precheck");
     const pre = await precheckSources(sourceDir, verilogFiles, { scratchDir: join(workDir, "scratch") });
@@ -104,6 +106,7 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
       findings.push(...src.findings);
       figures.source = { ...src.figures, sourceLines: (figures.intake as { sourceLines?: number } | undefined)?.sourceLines ?? null };
       sourceClean = src.figures.top !== null && !src.findings.some((f) => f.rule.startsWith("source.top") && f.verdict === "fail");
+      if (sourceClean && !src.findings.some((f) => f.rule === "source.yosys")) synthesized = src.figures;
     } else {
       skipped.push({ step: "source", reason: "the pre-check refused the source, so no tool read it" });
       skipped.push({ step: "simulation", reason: "the pre-check refused the source, so no tool read it" });
@@ -114,9 +117,12 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
   if (input.layoutPath) {
     await input.onStep?.("layout");
     try {
-      const summary = await readLayoutFile(input.layoutPath, { collectPlacements: 20_000 });
+      // A .gds.gz is inflated on the fly and held to the same size limit as a plain layout.
+      const summary = await readLayoutFile(input.layoutPath, { collectPlacements: 20_000, limits: { maxBytes: ruleset.uploadLimits.layoutBytes } });
       const checked = checkLayout(summary, ruleset);
       findings.push(...checked.findings);
+      if (synthesized) findings.push(...layoutMatchesSource(synthesized, checked.figures, ruleset));
+      else skipped.push({ step: "layout", reason: "no synthesized source to hold the layout against (flip-flops, ports)" });
       figures.layout = { ...checked.figures, topCells: summary.topCells, labels: summary.labels, instances: summary.instances, layers: summary.layers };
       const svgPath = join(workDir, "layout.svg");
       writeFileSync(svgPath, layoutPictureSvg(summary, ruleset, { dieUm: checked.figures.dieUm, title: summary.topCell ?? "layout" }));
@@ -126,7 +132,7 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
       artifact("layout-png", pngPath);
     } catch (e) {
       if (!(e instanceof GdsiiError)) throw e;
-      findings.push({ step: "layout", rule: "layout.read", verdict: "fail", title: "The layout could not be read as GDSII", evidence: e.message, advice: "Export the layout again as a GDSII stream file (.gds) and upload that file." });
+      findings.push({ step: "layout", rule: "layout.read", verdict: "fail", title: "The layout could not be read as GDSII", evidence: e.message, advice: "Export the layout again as a GDSII stream file (.gds, or gzip-compressed .gds.gz) and upload that file." });
     }
   } else {
     skipped.push({ step: "layout", reason: "no layout in this upload" });

@@ -12,6 +12,7 @@ import type { PlannedFile } from "./shapes";
 import { checkKind, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "./sniff";
 import { rulesetOf } from "./service.server";
 import { isId } from "~/security/ids";
+import { gzipLayoutProblem } from "./layout-gzip.server";
 
 /**
  * Uploads straight from the browser to S3 with presigned multipart parts. The server plans the parts, signs them,
@@ -227,7 +228,8 @@ export async function confirmFile(file: FileRow, ruleset: ReturnType<typeof rule
   const stored = await hashObject(file.s3Key);
   const problem = sizeProblem(file.kind, file.filename, stored.size, ruleset, "stored") ?? (() => {
     const k = checkKind(file.kind, file.filename, stored.head);
-    return k.ok ? null : k.message;
+    if (!k.ok) return k.message;
+    return file.kind === "layout" && k.mediaType === "application/gzip" ? gzipLayoutProblem(file.filename, stored.head) : null;
   })();
   if (problem) {
     await deleteObjectIfAny(file.s3Key);
