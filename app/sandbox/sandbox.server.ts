@@ -6,6 +6,13 @@ import { join } from "node:path";
  * Runs a hardware tool on untrusted input, as EDA.md prescribes: an unprivileged user, no network,
  * its own mount namespace with only the build folder writable (bubblewrap), prlimit on CPU time,
  * address space, file size and process count, and a wall-clock kill of the whole process group.
+ *
+ * The network stays unshared for every run, the repository fetch included: its sandbox has only its own
+ * loopback. The fetch's one way out is a Unix socket in the build folder, where the worker's single-destination
+ * proxy (app/sources/fetch-proxy.server.ts) listens and connects only to the one host:port of the entry's link,
+ * at addresses it resolved and checked itself, counting the bytes. A relay inside the sandbox (socat) turns
+ * git's proxy connection into that socket. So a fetch can reach exactly one repository host and nothing on the
+ * worker's network (the database, the store, other hosts), and git sees no credentials, config or /etc.
  */
 export interface SandboxLimits {
   cpuSeconds: number;
@@ -32,6 +39,8 @@ export interface SandboxRequest {
   limits?: Partial<SandboxLimits>;
   /** Cap on captured stdout/stderr, each; the rest is dropped and `truncated` set. */
   maxOutputBytes?: number;
+  /** Host folders mounted read-only at the same path (only the repository fetch uses one: the CA certificates). */
+  readOnlyPaths?: string[];
 }
 
 export interface SandboxResult {
@@ -67,6 +76,7 @@ export function sandboxArgv(req: SandboxRequest): string[] {
     ...bind,
     // Debian resolves some shared libraries (libblas, liblapack for ffmpeg) through /etc/alternatives
     "--ro-bind-try", "/etc/alternatives", "/etc/alternatives",
+    ...(req.readOnlyPaths ?? []).flatMap((p) => ["--ro-bind-try", p, p]),
     "--proc", "/proc",
     "--dev", "/dev",
     "--tmpfs", "/tmp",
