@@ -47,6 +47,8 @@ const envSchema = z.object({
   CHECK_RUN_EXPIRE_SECONDS: z.coerce.number().int().min(1).default(15 * 60),
   /** How often the supervising worker expires stalled jobs (pg-boss maintenance; its default is 120 s). */
   QUEUE_MAINTENANCE_SECONDS: z.coerce.number().int().min(1).default(120),
+  /** Repository links to 127.0.0.0/8 and localhost: refused, except where a test serves its own repository on loopback. */
+  REPOSITORY_FETCH_LOOPBACK: z.enum(["allow", "refuse"]).default("refuse"),
 });
 
 export type Env = z.infer<typeof envSchema>;

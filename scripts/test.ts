@@ -51,6 +51,8 @@ async function main(): Promise<number> {
       TEST_PG_DATA: cluster.dataDir,
       TEST_PG_PORT: String(cluster.port),
       TEST_ROOT: root,
+      // the tests serve their own git repositories on 127.0.0.1 for the repository fetch
+      REPOSITORY_FETCH_LOOPBACK: "allow",
       // Inside the project, so the built server resolves node_modules; one folder per run.
       GATECRASH_BUILD_DIR: buildDir,
     };

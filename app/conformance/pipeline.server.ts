@@ -7,6 +7,7 @@ import { layoutMatchesSource, type SourceSide } from "~/layout/matches-source";
 import { layoutPictureSvg } from "~/layout/layout-picture";
 import { layoutThumbnailPng } from "~/layout/layout-thumbnail";
 import { BundleError, extractBundle } from "~/sources/intake.server";
+import { fetchRepositoryStep } from "~/sources/repository-step.server";
 import { precheckPassed, precheckSources } from "~/sources/precheck.server";
 import { runSourceChecks } from "~/sources/yosys.server";
 import { compareVideoFile } from "~/simulation/compare-video.server";
@@ -25,6 +26,8 @@ export interface PipelineInput {
   ruleset: Ruleset;
   workDir: string;
   bundlePath?: string;
+  /** Sources by repository link instead of a bundle: fetched first (app/sources/repository.server.ts), then taken as a bundle. */
+  repository?: { url: string; commit: string; allowLoopback: boolean };
   layoutPath?: string;
   videoPath?: string;
   simulate: boolean;
@@ -70,13 +73,23 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
     if (path) artifacts.push({ kind, path, mediaType: MEDIA[kind] ?? "application/octet-stream" });
   };
 
+  // 0. A repository link: its commit is fetched into a tree archive, which the intake then takes like a bundle
+  let bundlePath = input.bundlePath;
+  if (input.repository) {
+    await input.onStep?.("intake");
+    const fetched = await fetchRepositoryStep(input.repository, ruleset, join(workDir, "repository"));
+    findings.push(...fetched.findings);
+    figures.repository = fetched.figures;
+    bundlePath = fetched.archivePath ?? undefined;
+  }
+
   // 1. Bundle intake
   let sourceDir: string | null = null;
   let verilogFiles: string[] = [];
-  if (input.bundlePath) {
+  if (bundlePath) {
     await input.onStep?.("intake");
     try {
-      const manifest = await extractBundle(input.bundlePath, join(workDir, "src"), ruleset.uploadLimits);
+      const manifest = await extractBundle(bundlePath, join(workDir, "src"), ruleset.uploadLimits);
       sourceDir = join(workDir, "src");
       verilogFiles = manifest.verilogFiles;
       figures.intake = { format: manifest.format, files: manifest.files.length, verilogFiles: verilogFiles.length, sourceLines: manifest.sourceLines, totalBytes: manifest.totalBytes };
@@ -89,7 +102,7 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
       if (!(e instanceof BundleError)) throw e;
       findings.push({ step: "intake", rule: `intake.${e.code}`, verdict: "fail", title: "The source bundle was refused", evidence: e.message, advice: "Pack plain Verilog files into a .zip or .tar.gz without links, absolute paths or '..'." });
     }
-  } else {
+  } else if (!input.repository) {
     skipped.push({ step: "intake", reason: "no source bundle in this upload" });
   }
 

@@ -18,7 +18,7 @@ const EXT: Record<string, string> = { bundle: "archive", layout: "gds", video: "
  */
 export async function executeCheckRun(checkRunId: string, opts: { simulate?: boolean } = {}): Promise<"done" | "skipped"> {
   const [row] = await db()
-    .select({ run: checkRuns, uploadId: uploads.id, ruleset: competitions.ruleset })
+    .select({ run: checkRuns, uploadId: uploads.id, repositoryUrl: uploads.repositoryUrl, repositoryCommit: uploads.repositoryCommit, ruleset: competitions.ruleset })
     .from(checkRuns)
     .innerJoin(uploads, eq(uploads.id, checkRuns.uploadId))
     .innerJoin(entries, eq(entries.id, uploads.entryId))
@@ -46,6 +46,7 @@ export async function executeCheckRun(checkRunId: string, opts: { simulate?: boo
       ruleset: parseRuleset(row.ruleset),
       workDir: join(workDir, "work"),
       bundlePath: local.bundle,
+      repository: row.repositoryUrl && row.repositoryCommit ? { url: row.repositoryUrl, commit: row.repositoryCommit, allowLoopback: env().REPOSITORY_FETCH_LOOPBACK === "allow" } : undefined,
       layoutPath: local.layout,
       videoPath: local.video,
       simulate: opts.simulate ?? true,

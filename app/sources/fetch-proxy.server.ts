@@ -87,7 +87,7 @@ export async function startFetchProxy(opts: FetchProxyOptions): Promise<FetchPro
       res.writeHead(403, { "content-type": "text/plain" }).end("Gatecrash fetches only from the entry's repository host\n");
       return;
     }
-    const headers = { ...req.headers, host: url.host };
+    const headers: Record<string, string | string[] | undefined> = { ...req.headers, host: url.host };
     delete headers["proxy-connection"];
     delete headers["proxy-authorization"];
     const upstream = httpRequest({ host: address, port, method: req.method, path: `${url.pathname}${url.search}`, headers }, (up) => {

@@ -202,7 +202,7 @@ async function packTrees(trees: { prefix: string; tar: string }[], archivePath: 
     const done = new Promise<void>((resolve, reject) => {
       extract.on("entry", (header, stream, next) => {
         // git archive writes a pax global header holding the commit id: not a member of the tree.
-        if (header.type === "pax-global-header") {
+        if ((header.type as string) === "pax-global-header") {
           stream.resume();
           stream.on("end", next);
           return;
