@@ -1,6 +1,7 @@
 import { createReadStream, createWriteStream, existsSync, readFileSync, statSync, writeFileSync } from "node:fs";
 import { mkdir, mkdtemp, rm } from "node:fs/promises";
-import { join } from "node:path";
+import { tmpdir } from "node:os";
+import { dirname, join } from "node:path";
 import { pipeline } from "node:stream/promises";
 import { createGzip } from "node:zlib";
 import tarStream from "tar-stream";
@@ -107,7 +108,7 @@ export async function fetchRepository(req: RepositoryRequest): Promise<FetchedRe
     await packTrees(trees, archivePath);
     return { archivePath, commit: commit.commit, transferredBytes: budget.total - budget.left, submodules };
   } finally {
-    for (const t of trees) await rm(t.tar, { force: true });
+    for (const t of trees) await rm(dirname(t.tar), { recursive: true, force: true });
   }
 }
 
@@ -121,7 +122,9 @@ async function fetchOne(url: string, commit: string, req: RepositoryRequest, bud
     if (e instanceof FetchHostError) throw new RepositoryError("host", `Gatecrash did not fetch: ${e.message}.`);
     throw e;
   }
-  const dir = await mkdtemp(join(req.workDir, "fetch-"));
+  // A Unix socket path holds at most 107 bytes (sun_path): the fetch's folder sits in the short system temp folder.
+  const dir = await mkdtemp(join(tmpdir(), "gcf-"));
+  if (join(dir, "proxy.sock").length > 100) throw new Error(`the temp folder ${tmpdir()} is too deep for the fetch's Unix socket; set TMPDIR to a short path`);
   writeFileSync(join(dir, "fetch.sh"), FETCH_SCRIPT);
   const proxy = await startFetchProxy({ socketPath: join(dir, "proxy.sock"), host: link.host, port: link.port, addresses, budgetBytes: budget.left });
   try {
@@ -143,6 +146,10 @@ async function fetchOne(url: string, commit: string, req: RepositoryRequest, bud
     }
     if (run.exitCode !== 0) throw explainFailure(run.exitCode, said, link.url, commit, proxy.refused());
     return { dir, tar: join(dir, "tree.tar") };
+  } catch (e) {
+    // nothing of a failed fetch is kept; the error goes on as it came
+    await rm(dir, { recursive: true, force: true });
+    throw e;
   } finally {
     await proxy.close();
   }
