@@ -10,7 +10,7 @@ export type FileKind = (typeof FILE_KINDS)[number];
 
 export const KIND_LABELS: Record<FileKind, string> = {
   bundle: "Source bundle (.zip or .tar.gz)",
-  layout: "Layout (GDSII, .gds or .gds.gz)",
+  layout: "Layout (GDSII), .gds or .gds.gz",
   video: "Capture video (WebM or MP4)",
   still: "Still picture (PNG or JPEG)",
 };

@@ -134,7 +134,7 @@ describe("a complete upload", () => {
     await sendParts(s.cookie, st.body.uploadId, layout, PNG);
     const refused = await confirm(s.cookie, st.body.uploadId, layout);
     expect(refused.status).toBe(422);
-    expect(refused.body.error.message).toBe('"shot.gds" is not a GDSII stream or a gzip file: it is a PNG picture. Choose the right file for "Layout (GDSII, .gds or .gds.gz)".');
+    expect(refused.body.error.message).toBe('"shot.gds" is not a GDSII stream or a gzip file: it is a PNG picture. Choose the right file for "Layout (GDSII), .gds or .gds.gz".');
     const notYet = await complete(s.cookie, st.body.uploadId);
     expect(notYet.status).toBe(409);
     // The bundle is kept; the entrant replaces only the refused layout, and the upload completes.
