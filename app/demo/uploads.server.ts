@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { readFileSync } from "node:fs";
 import { createHash } from "node:crypto";
-import yazl from "yazl";
+import { zipBuffer } from "~/storage/zip.server";
 import type { Db } from "~/db/client.server";
 import { entries, uploadFiles, uploads } from "~/db/schema";
 import { queueCheckRun } from "~/conformance/queue.server";
@@ -11,17 +11,7 @@ import { demoEntryLayout } from "../../demo/designs/layouts";
 
 const DAY = 24 * 3600 * 1000;
 
-function zipOf(name: string, contents: Buffer): Promise<Buffer> {
-  const zip = new yazl.ZipFile();
-  zip.addBuffer(contents, name, { mtime: new Date("2027-01-01T00:00:00Z") });
-  zip.end();
-  const chunks: Buffer[] = [];
-  return new Promise((resolve, reject) => {
-    zip.outputStream.on("data", (c: Buffer) => chunks.push(c));
-    zip.outputStream.on("end", () => resolve(Buffer.concat(chunks)));
-    zip.outputStream.on("error", reject);
-  });
-}
+const zipOf = (name: string, contents: Buffer) => zipBuffer({ [name]: contents }, new Date("2027-01-01T00:00:00Z"));
 
 /**
  * Gives every demo entry real files — its Verilog packed as a .zip and a GDSII layout generated for it —

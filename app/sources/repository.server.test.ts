@@ -69,6 +69,19 @@ describe("fetching one commit of a repository", () => {
     expect(e.message).toMatch(/more than 2097152 bytes/);
   }, 120_000);
 
+  it("gives up on a host that never answers at the time limit, and says so", async () => {
+    const stalled = await startGitServer({ stall: true });
+    try {
+      const started = Date.now();
+      const e = await refusal(request(stalled.url("crew/slow.git"), "0123456789abcdef0123456789abcdef01234567", { fetchSeconds: 5 }));
+      expect(e.code).toBe("timeout");
+      expect(e.message).toMatch(/within 5 s/);
+      expect(Date.now() - started).toBeLessThan(30_000);
+    } finally {
+      await stalled.close();
+    }
+  }, 60_000);
+
   it("refuses unsafe links before any fetch: file://, ext::, credentials, private hosts", async () => {
     for (const [url, pattern] of [
       ["file:///etc/", /file:\/\//],

@@ -5,7 +5,7 @@ import { dirname, join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { runPipeline } from "~/conformance/pipeline.server";
 import { rulesetJson } from "~/competitions/ruleset-io";
-import { DEMO_RULESET, rulesetSchema, type Ruleset } from "~/rules/ruleset";
+import { DEMO_PINS, DEMO_RULESET, rulesetSchema, type Ruleset } from "~/rules/ruleset";
 import { starterFiles } from "./starter";
 import { starterZip } from "./starter-zip.server";
 
@@ -19,19 +19,14 @@ const dir = mkdtempSync(join(tmpdir(), "gc-starter-"));
 chmodSync(dir, 0o755);
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
+// Other names, 3-bit colour, a 2-bit spare output and an active-high reset.
+const RENAMED: Record<string, string> = { clk: "clock_in", rst_n: "reset", vga_r: "red", vga_g: "green", vga_b: "blue", vga_hs: "hsync", vga_vs: "vsync", pwm_out: "sound" };
 const OTHER = rulesetSchema.parse({
   topModule: "beam_chaser",
   resetActive: "high",
   colourBitsPerChannel: 3,
   pins: [
-    { name: "clock_in", direction: "input", width: 1, role: "clock" },
-    { name: "reset", direction: "input", width: 1, role: "reset" },
-    { name: "red", direction: "output", width: 3, role: "red" },
-    { name: "green", direction: "output", width: 3, role: "green" },
-    { name: "blue", direction: "output", width: 3, role: "blue" },
-    { name: "hsync", direction: "output", width: 1, role: "hsync" },
-    { name: "vsync", direction: "output", width: 1, role: "vsync" },
-    { name: "sound", direction: "output", width: 1, role: "audio" },
+    ...DEMO_PINS.map((p) => ({ ...p, name: RENAMED[p.name], width: p.width === 2 ? 3 : p.width })),
     { name: "spare", direction: "output", width: 2, role: "unused" },
   ],
 });

@@ -2,7 +2,6 @@ import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { eq } from "drizzle-orm";
-import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { DEMO_RULESET } from "~/rules/ruleset";
 import { db } from "~/db/client.server";
@@ -12,19 +11,10 @@ import { demoEntryLayout } from "../../demo/designs/layouts";
 import { commitTree, startGitServer, type GitServer } from "../support/git-server";
 import { waitForMail } from "../support/mail";
 import { makeUser, sessionCookie, unique } from "../support/users";
-import { contextWithCookie, screenshot, useBrowser } from "./browser";
+import { contextWithCookie, pollUntil, screenshot, useBrowser } from "./browser";
 
 let git: GitServer | null = null;
 const browser = useBrowser(async () => git?.close());
-
-async function pollUntil(page: Page, check: () => Promise<boolean>, what: string, timeoutMs: number) {
-  const until = Date.now() + timeoutMs;
-  while (Date.now() < until) {
-    if (await check()) return;
-    await page.waitForTimeout(500);
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 describe("a crew that submits by repository link", () => {
   it("gives a link and a commit, sees the commit on its upload and its receipt, and the check run fetches it", async () => {
@@ -69,7 +59,7 @@ describe("a crew that submits by repository link", () => {
 
     // The worker fetches exactly that commit (through the sandbox's one-host proxy) and checks it with its layout.
     const fetched = page.locator('[data-rule="intake.repository"][data-verdict="pass"]');
-    await pollUntil(page, async () => (await fetched.count()) > 0, "the check run's repository finding", 240_000);
+    await pollUntil(page, async () => (await fetched.count()) > 0, "the check run's repository finding", 240_000, 500);
     expect(await page.locator('[data-rule="layout.matches.flipflops"][data-verdict="pass"]').count()).toBe(1);
     expect(git.requests.some((r) => r.includes("scanline/beam.git") && r.includes("git-upload-pack"))).toBe(true);
     await screenshot(page, "repository-upload-checked");

@@ -10,8 +10,10 @@ import { lateNoteForJury } from "~/entries/late-exception.server";
 import type { UploadComparison } from "~/entries/compare";
 import { eligibleEntries } from "~/showcase/showcase.server";
 import { stopQueue } from "~/jobs/queue.server";
-import { DEMO_RULESET } from "~/rules/ruleset";
+import { DEMO_RULESET, rulesetSchema } from "~/rules/ruleset";
 import * as entryPage from "~/routes/entries.$entryId";
+import * as rulesetRoute from "~/routes/e.$eventSlug.$competitionSlug.ruleset[.]json";
+import * as starterRoute from "~/routes/e.$eventSlug.$competitionSlug.starter[.]zip";
 import { designPath } from "../../demo/designs/index";
 import { demoEntryLayout } from "../../demo/designs/layouts";
 import { commitTree, startGitServer, type GitServer } from "../support/git-server";
@@ -222,4 +224,25 @@ describe("comparing two uploads", () => {
     expect(c.findings.find((f) => f.rule === "layout.matches.flipflops")).toMatchObject({ a: { verdict: "pass" }, b: { verdict: "fail" }, changed: true });
     expect(c.findings.find((f) => f.rule === "source.top")?.changed).toBe(false);
   }, 180_000);
+});
+
+describe("the public rules page's downloads", () => {
+  it("serves the compo's ruleset and starter bundle once the compo is public, and nothing for a draft", async () => {
+    const open = await makeEntrySetup();
+    const params = { eventSlug: open.event.slug, competitionSlug: open.competition.slug };
+    const json = await callRoute(rulesetRoute.loader, request(`/e/${params.eventSlug}/${params.competitionSlug}/ruleset.json`), params);
+    expect(json.status).toBe(200);
+    const res = (await rulesetRoute.loader({ request: request("/x"), params, context: {} } as never)) as Response;
+    expect(rulesetSchema.parse(await res.json())).toEqual(DEMO_RULESET);
+    const zip = (await starterRoute.loader({ request: request("/x"), params, context: {} } as never)) as Response;
+    const bytes = Buffer.from(await zip.arrayBuffer());
+    expect(bytes.subarray(0, 4)).toEqual(Buffer.from([0x50, 0x4b, 0x03, 0x04])); // PKWARE APPNOTE 4.3.7: local file header
+    // Stored names are plain text in a zip's headers: the design, the testbench, the ruleset and the README.
+    for (const name of ["gc_entry.v", "check/gc_entry_check.tb", "ruleset.json", "README.md"]) expect(bytes.includes(Buffer.from(name))).toBe(true);
+
+    const draft = await makeEntrySetup({ state: "draft" });
+    const hidden = { eventSlug: draft.event.slug, competitionSlug: draft.competition.slug };
+    expect((await callRoute(starterRoute.loader, request("/x"), hidden)).status).toBe(404);
+    expect((await callRoute(rulesetRoute.loader, request("/x"), hidden)).status).toBe(404);
+  });
 });

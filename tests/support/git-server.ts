@@ -17,12 +17,13 @@ export interface GitServer {
   close(): Promise<void>;
 }
 
-export async function startGitServer(opts: { redirectTo?: string } = {}): Promise<GitServer> {
+export async function startGitServer(opts: { redirectTo?: string; stall?: boolean } = {}): Promise<GitServer> {
   const root = mkdtempSync(join(tmpdir(), "gc-git-served-"));
   const requests: string[] = [];
   const server: Server = createServer((req, res) => {
     const url = new URL(req.url ?? "/", "http://127.0.0.1");
     requests.push(`${req.method} ${url.pathname}`);
+    if (opts.stall) return; // a host that accepts the connection and never answers
     if (opts.redirectTo && url.pathname.startsWith("/moved/")) {
       res.writeHead(301, { location: `${opts.redirectTo}${url.pathname.slice("/moved".length)}${url.search}` }).end();
       return;
