@@ -190,6 +190,7 @@ describe("an organizer's late exception", () => {
     const inTwoHours = new Date(Date.now() + 2 * 3600_000);
     const wall = new Intl.DateTimeFormat("sv-SE", { timeZone: s.event.timeZone, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit" }).format(inTwoHours).replace(" ", "T");
     expect((await act(s.cookie, { intent: "grant-late", until: wall, reason: "power cut at table 12" })).status).toBe(403);
+    expect((await act(orgCookie, { intent: "final", upload: "1" })).status).toBe(403); // the pick is the crew's
     expect((await act(orgCookie, { intent: "grant-late", until: wall, reason: "oops" })).data).toMatchObject({ field: "reason" });
     expect((await act(orgCookie, { intent: "grant-late", until: wall, reason: "power cut at table 12" })).data?.notice).toMatch(/Late exception granted/);
     const [audited] = await db().select().from(auditLog).where(and(eq(auditLog.subjectId, s.entry.id), eq(auditLog.action, "entry.late-exception.grant")));
