@@ -66,7 +66,7 @@ async function main(): Promise<number> {
     if (runE2e) {
       const app = await startStack({ ports, dataDir: join(root, "data"), env, services: ["worker", "web"], quiet: !process.env.E2E_VERBOSE });
       stops.push(app.stop);
-      ok = run("end-to-end tests (Playwright in Chromium)", process.execPath, ["node_modules/vitest/vitest.mjs", "run", "--config", "tests/e2e/vitest.config.ts", ...(process.env.E2E_FILTER ? [process.env.E2E_FILTER] : [])], env) && ok;
+      ok = run("end-to-end tests (Playwright in Chromium)", process.execPath, ["node_modules/vitest/vitest.mjs", "run", "--config", "tests/e2e/vitest.config.ts", ...(process.env.E2E_FILTER?.split(/\s+/).filter(Boolean) ?? [])], env) && ok;
     }
     return ok ? 0 : 1;
   } finally {

@@ -1,4 +1,5 @@
 import { Form } from "react-router";
+import { formatInZone } from "~/competitions/timezone";
 
 /**
  * An entry's late exception: what everyone who sees the entry reads (until when, why, who granted it), and the
@@ -11,7 +12,8 @@ export interface LateExceptionView {
   grantedAt: string | null;
 }
 
-const fmt = (iso: string, timeZone: string) => new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone, timeZoneName: "short" }).format(new Date(iso));
+// dateStyle cannot be combined with timeZoneName, so formatInZone names the parts one by one
+const fmt = (iso: string, timeZone: string) => formatInZone(iso, timeZone);
 
 export function LateExceptionNotice({ exception, timeZone }: { exception: LateExceptionView; timeZone: string }) {
   return (
