@@ -1,8 +1,9 @@
 // What crews submit, measured against references in the same run: the sandboxed repository fetch (relay + one-host
 // proxy) against a plain shallow clone on the host from the same loopback server, and a .gds.gz layout read
 // against the same layout uncompressed. Best of five each. Run alone: npm run bench -- submissions
-import { execFileSync } from "node:child_process";
-import { chmodSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { execFile, execFileSync } from "node:child_process";
+import { promisify } from "node:util";
+import { chmodSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { generateDemoLayout } from "../../app/gdsii/demo-layout";
@@ -32,15 +33,17 @@ export async function benchSubmissions(): Promise<void> {
     const sandboxed = await best(5, () =>
       fetchRepository({ url: server.url("crew/entry.git"), commit, workDir: join(work, `s${n++}`), transferBytes: 16 << 20, fetchSeconds: 60, submodules: false, allowLoopback: true }),
     );
-    const plain = await best(5, () => execFileSync("git", ["clone", "-q", "--depth", "1", "--no-tags", server.url("crew/entry.git"), join(work, `p${n++}`)]));
+    // async: the loopback server answers from this same process
+    const plain = await best(5, () => promisify(execFile)("git", ["clone", "-q", "--depth", "1", "--no-tags", server.url("crew/entry.git"), join(work, `p${n++}`)]));
     console.log(`repository fetch: sandboxed ${sandboxed.toFixed(0)} ms, plain host clone ${plain.toFixed(0)} ms, ratio ${(sandboxed / plain).toFixed(2)}×`);
 
     const gds = join(work, "layout.gds");
-    writeFileSync(gds, generateDemoLayout({ shape: "4x4", flipFlops: 4000, logicCells: 60_000, seed: 9, wiresPerCell: 1 }).bytes);
+    writeFileSync(gds, generateDemoLayout({ shape: "9x9", flipFlops: 8000, logicCells: 150_000, seed: 9, wiresPerCell: 1 }).bytes);
     execFileSync("gzip", ["-k", "-6", gds]);
     const raw = await best(5, () => readLayoutFile(gds));
     const packed = await best(5, () => readLayoutFile(`${gds}.gz`));
-    console.log(`layout read: .gds ${raw.toFixed(0)} ms, .gds.gz ${packed.toFixed(0)} ms, ratio ${(packed / raw).toFixed(2)}×`);
+    const mib = (p: string) => (statSync(p).size / 1048576).toFixed(1);
+    console.log(`layout read: .gds (${mib(gds)} MiB) ${raw.toFixed(0)} ms, .gds.gz (${mib(`${gds}.gz`)} MiB) ${packed.toFixed(0)} ms, ratio ${(packed / raw).toFixed(2)}×`);
   } finally {
     await server.close();
     rmSync(work, { recursive: true, force: true });
