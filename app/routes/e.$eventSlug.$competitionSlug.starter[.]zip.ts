@@ -6,8 +6,8 @@ import { starterZip } from "~/sources/starter-zip.server";
 import type { Route } from "./+types/e.$eventSlug.$competitionSlug.starter[.]zip";
 
 /** The compo's starter bundle: a minimal design that passes its ruleset, a testbench and the local check. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const found = await publicCompetition(request, params.eventSlug, params.competitionSlug);
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const found = await publicCompetition(context, params.eventSlug, params.competitionSlug);
   if (!found) throw data({ message: "No such compo." }, { status: 404 });
   const { competition: c, event: e, ruleset } = found;
   let files;

@@ -9,6 +9,7 @@ import { join, resolve } from "node:path";
 import { generateDemoLayout } from "../../app/gdsii/demo-layout";
 import { readLayoutFile } from "../../app/gdsii/reader.server";
 import { fetchRepository } from "../../app/sources/repository.server";
+import { DEMO_RULESET, rulesetSchema } from "../../app/rules/ruleset";
 import { commitTree, startGitServer } from "../../tests/support/git-server";
 
 const REPO = resolve(new URL("../..", import.meta.url).pathname);
@@ -38,7 +39,9 @@ export async function benchSubmissions(): Promise<void> {
     console.log(`repository fetch: sandboxed ${sandboxed.toFixed(0)} ms, plain host clone ${plain.toFixed(0)} ms, ratio ${(sandboxed / plain).toFixed(2)}×`);
 
     const gds = join(work, "layout.gds");
-    writeFileSync(gds, generateDemoLayout({ shape: "9x9", flipFlops: 8000, logicCells: 150_000, seed: 9, wiresPerCell: 1 }).bytes);
+    // a 9 × 9 tile die, far beyond any entry, so the read takes long enough to time
+    const roomy = rulesetSchema.parse({ ...DEMO_RULESET, tile: { ...DEMO_RULESET.tile, allowedShapes: [{ name: "huge", cols: 9, rows: 9 }] } });
+    writeFileSync(gds, generateDemoLayout({ ruleset: roomy, shape: "huge", flipFlops: 8000, logicCells: 150_000, seed: 9, wiresPerCell: 1 }).bytes);
     execFileSync("gzip", ["-k", "-6", gds]);
     const raw = await best(5, () => readLayoutFile(gds));
     const packed = await best(5, () => readLayoutFile(`${gds}.gz`));

@@ -17,7 +17,7 @@ import * as starterRoute from "~/routes/e.$eventSlug.$competitionSlug.starter[.]
 import { designPath } from "../../demo/designs/index";
 import { demoEntryLayout } from "../../demo/designs/layouts";
 import { commitTree, startGitServer, type GitServer } from "../support/git-server";
-import { callRoute } from "../support/routes";
+import { callRoute, routeArgs } from "../support/routes";
 import { makeUser, request, sessionCookie } from "../support/users";
 import { zipOf } from "../support/archives";
 import { makeEntrySetup } from "./entries-support";
@@ -233,9 +233,9 @@ describe("the public rules page's downloads", () => {
     const params = { eventSlug: open.event.slug, competitionSlug: open.competition.slug };
     const json = await callRoute(rulesetRoute.loader, request(`/e/${params.eventSlug}/${params.competitionSlug}/ruleset.json`), params);
     expect(json.status).toBe(200);
-    const res = (await rulesetRoute.loader({ request: request("/x"), params, context: {} } as never)) as Response;
+    const res = (await rulesetRoute.loader((await routeArgs(request("/x"), params)) as never)) as Response;
     expect(rulesetSchema.parse(await res.json())).toEqual(DEMO_RULESET);
-    const zip = (await starterRoute.loader({ request: request("/x"), params, context: {} } as never)) as Response;
+    const zip = (await starterRoute.loader((await routeArgs(request("/x"), params)) as never)) as Response;
     const bytes = Buffer.from(await zip.arrayBuffer());
     expect(bytes.subarray(0, 4)).toEqual(Buffer.from([0x50, 0x4b, 0x03, 0x04])); // PKWARE APPNOTE 4.3.7: local file header
     // Stored names are plain text in a zip's headers: the design, the testbench, the ruleset and the README.
