@@ -118,9 +118,9 @@ const TABLE: Record<string, Row> = {
   "organize/events/:eventId/party": { loader: ORGANIZER, action: ORGANIZER },
   "organize/events/:eventId/party/codes": { loader: ORGANIZER },
   "organize/events/:eventId/party/codes.csv": { loader: ORGANIZER },
-  "organize/events/:eventId/archive.zip": { loader: "DDDDDDDD..", note: "the matrix's fixture files are rows without bytes in storage: the organizer gets 409 naming them; the archive itself is tested in the party suite" },
+  "organize/events/:eventId/archive.zip": { loader: "SNNNNNNN..", note: "the matrix's fixture files are rows without bytes in storage: the organizer gets 409 naming them; the archive itself is tested in the party suite" },
   "organize/events/:eventId/shuttle": { loader: ORGANIZER },
-  "organize/events/:eventId/shuttle.zip": { loader: "DDDDDDDD..", note: "with no entry chosen an organizer gets 400 (nothing to export); the export itself is tested in the party suite" },
+  "organize/events/:eventId/shuttle.zip": { loader: "SNNNNNNN..", note: "with no entry chosen an organizer gets 400 (nothing to export); the export itself is tested in the party suite" },
   "*": { loader: NOBODY, note: "the not-found page is a 404 for everyone" },
 };
 

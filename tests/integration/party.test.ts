@@ -25,7 +25,7 @@ import { stageScreens } from "~/stage/stage.server";
 import { competitionById } from "~/showcase/showcase.server";
 import { putObject } from "~/storage/s3.server";
 import { castBallot, VoteError } from "~/voting/voting.server";
-import { callRoute } from "../support/routes";
+import { callRoute, routeContext } from "../support/routes";
 import { makeUser, request, sessionCookie } from "../support/users";
 import { twoCompoParty, withStoredFiles } from "./party.fixtures";
 import { addScores, makeCompo, setCompetition, type CompoFixture } from "./showcase.fixtures";
@@ -46,7 +46,8 @@ async function desk(f: CompoFixture, form: Record<string, string | string[]>) {
 }
 
 async function bodyOf(fn: unknown, path: string, params: Record<string, string>, cookie?: string): Promise<Response> {
-  return (await (fn as (a: unknown) => Promise<Response>)({ request: request(path, { cookie }), params, context: {} })) as Response;
+  const req = request(path, { cookie });
+  return (await (fn as (a: unknown) => Promise<Response>)({ request: req, params, context: await routeContext(req) })) as Response;
 }
 
 describe("party-wide vote codes", () => {
