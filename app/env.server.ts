@@ -54,6 +54,8 @@ const envSchema = z.object({
   QUEUE_MAINTENANCE_SECONDS: z.coerce.number().int().min(1).default(120),
   /** Check runs one worker process runs at a time; default: one core left for the rest of the machine. */
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(Math.max(1, availableParallelism() - 1)),
+  /** Repository links to 127.0.0.0/8 and localhost: refused, except where a test serves its own repository on loopback. */
+  REPOSITORY_FETCH_LOOPBACK: z.enum(["allow", "refuse"]).default("refuse"),
 });
 
 export type Env = z.infer<typeof envSchema>;

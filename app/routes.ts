@@ -33,6 +33,8 @@ export default [
   route("organize/:competitionId/files/:fileId", "routes/organize.$competitionId.files.$fileId.ts"),
   route("e/:eventSlug/:competitionSlug", "routes/e.$eventSlug.$competitionSlug.tsx"),
   route("e/:eventSlug/:competitionSlug/calendar.ics", "routes/e.$eventSlug.$competitionSlug.calendar[.]ics.ts"),
+  route("e/:eventSlug/:competitionSlug/ruleset.json", "routes/e.$eventSlug.$competitionSlug.ruleset[.]json.ts"),
+  route("e/:eventSlug/:competitionSlug/starter.zip", "routes/e.$eventSlug.$competitionSlug.starter[.]zip.ts"),
   // end of organizer flows
   // entrant flows: crews, entries, fees, uploads (app/crews, app/entries, app/payments)
   route("crews/new", "routes/crews.new.tsx"),

@@ -49,7 +49,8 @@ beforeAll(async () => {
   chmodSync(dir, 0o755);
   writeFileSync(join(dir, "good.zip"), await zipOf({ "top.v": design() }));
   writeFileSync(join(dir, "latch.zip"), await zipOf({ "top.v": design("reg l; always @* if (x[0]) l = y[0];", "l") }));
-  const layout = generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 20, logicCells: 120, seed: 7 });
+  // The layout of this design: its flip-flops, so the layout-against-source findings pass.
+  const layout = generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 20 + COUNTER_BITS, logicCells: 120, seed: 7 });
   writeFileSync(join(dir, "good.gds"), layout.bytes);
   writeFileSync(join(dir, "facts.json"), JSON.stringify(layout.facts));
   writeFileSync(join(dir, "truncated.gds"), layout.bytes.subarray(0, 101));
@@ -71,7 +72,7 @@ describe("npm run check", () => {
     // The generator's own record of what it placed is the answer key for the layout figures.
     expect(report.layout.topCell).toBe("gc_entry");
     expect(report.layout.bboxUm).toEqual([0, 0, 180, 120]); // DEMO_RULESET tile 180 × 120 µm
-    expect(report.layout.instances.gc_dff + report.layout.instances.gc_dffr).toBe(20);
+    expect(report.layout.instances.gc_dff + report.layout.instances.gc_dffr).toBe(20 + COUNTER_BITS);
     const labels = report.layout.labels.map((l: { text: string }) => l.text);
     expect(labels).toEqual(expect.arrayContaining(["clk", "rst_n", "vga_hs", "vga_vs", "pwm_out"]));
     expect(report.layout.labels[0]).toEqual(expect.objectContaining({ layer: DEMO_RULESET.pinLayer.layer, xUm: expect.any(Number), yUm: expect.any(Number) }));

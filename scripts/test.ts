@@ -4,6 +4,7 @@
  * then unit + integration tests (vitest, including supertest against the built request listener),
  * then the Playwright e2e suite in Debian's Chromium against the built server and the worker.
  * Pass vitest filters after `--`: `npm test -- app/gdsii` runs only those (and skips e2e unless asked with --e2e).
+ * E2E_FILTER=tests/e2e/repository narrows the browser suite the same way.
  */
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, rmSync } from "node:fs";
@@ -51,6 +52,8 @@ async function main(): Promise<number> {
       TEST_PG_DATA: cluster.dataDir,
       TEST_PG_PORT: String(cluster.port),
       TEST_ROOT: root,
+      // the tests serve their own git repositories on 127.0.0.1 for the repository fetch
+      REPOSITORY_FETCH_LOOPBACK: "allow",
       // Inside the project, so the built server resolves node_modules; one folder per run.
       GATECRASH_BUILD_DIR: buildDir,
     };
@@ -63,7 +66,7 @@ async function main(): Promise<number> {
     if (runE2e) {
       const app = await startStack({ ports, dataDir: join(root, "data"), env, services: ["worker", "web"], quiet: !process.env.E2E_VERBOSE });
       stops.push(app.stop);
-      ok = run("end-to-end tests (Playwright in Chromium)", process.execPath, ["node_modules/vitest/vitest.mjs", "run", "--config", "tests/e2e/vitest.config.ts"], env) && ok;
+      ok = run("end-to-end tests (Playwright in Chromium)", process.execPath, ["node_modules/vitest/vitest.mjs", "run", "--config", "tests/e2e/vitest.config.ts", ...(process.env.E2E_FILTER?.split(/\s+/).filter(Boolean) ?? [])], env) && ok;
     }
     return ok ? 0 : 1;
   } finally {

@@ -128,6 +128,10 @@ export const rulesetFormSchema = z.object({
     memoryMb: int(256, 16384),
   }),
   flashCheck: z.object({ enabled: z.boolean().optional(), action: z.enum(["warn", "block"]) }),
+  // what crews submit: layout against source, licence, repository links
+  flipFlopTolerancePct: z.number({ error: "A number." }).min(0, "At least 0.").max(100, "At most 100."),
+  licence: z.object({ required: z.boolean().optional(), openOnly: z.boolean().optional() }).optional(),
+  repository: z.object({ allowed: z.boolean().optional(), submodules: z.boolean().optional(), transferMiB: positive(4096), fetchSeconds: int(5, 600) }),
 });
 export type RulesetForm = z.infer<typeof rulesetFormSchema>;
 
@@ -183,6 +187,9 @@ export function rulesetFromForm(f: RulesetForm): RulesetInput {
     },
     simulation: f.simulation,
     flashCheck: { enabled: f.flashCheck.enabled ?? false, action: f.flashCheck.action },
+    layoutMatch: { flipFlopTolerancePct: f.flipFlopTolerancePct },
+    licence: { required: f.licence?.required ?? false, openOnly: f.licence?.openOnly ?? false },
+    repository: { allowed: f.repository.allowed ?? false, submodules: f.repository.submodules ?? false, transferBytes: Math.round(f.repository.transferMiB * MIB), fetchSeconds: f.repository.fetchSeconds },
   };
 }
 
@@ -215,6 +222,9 @@ export function rulesetToForm(r: Ruleset) {
     },
     simulation: Object.fromEntries(Object.entries(r.simulation).map(([k, v]) => [k, String(v)])),
     flashCheck: { enabled: r.flashCheck.enabled ? "on" : "", action: r.flashCheck.action },
+    flipFlopTolerancePct: String(r.layoutMatch.flipFlopTolerancePct),
+    licence: { required: r.licence.required ? "on" : "", openOnly: r.licence.openOnly ? "on" : "" },
+    repository: { allowed: r.repository.allowed ? "on" : "", submodules: r.repository.submodules ? "on" : "", transferMiB: String(mib(r.repository.transferBytes)), fetchSeconds: String(r.repository.fetchSeconds) },
   };
 }
 

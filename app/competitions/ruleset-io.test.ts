@@ -45,6 +45,9 @@ describe("ruleset through the form", () => {
     // The browser sends strings; Conform coerces them to numbers as the schema says — here by hand.
     const coerced = JSON.parse(JSON.stringify(asForm), (_k, v) => (typeof v === "string" && v !== "" && !Number.isNaN(Number(v)) ? Number(v) : v === "" ? undefined : v));
     coerced.flashCheck.enabled = asForm.flashCheck.enabled === "on";
+    coerced.repository.allowed = asForm.repository.allowed === "on";
+    coerced.repository.submodules = asForm.repository.submodules === "on";
+    coerced.licence = { required: asForm.licence.required === "on", openOnly: asForm.licence.openOnly === "on" };
     coerced.topModule = asForm.topModule;
     coerced.flipFlopPattern = asForm.flipFlopPattern;
     coerced.tile.shapes = asForm.tile.shapes;

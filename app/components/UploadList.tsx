@@ -1,11 +1,15 @@
+import { Form } from "react-router";
 import type { UploadRow } from "~/entries/shapes";
 const fmt = (iso: string, timeZone: string) =>
   new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "long", timeZone }).format(new Date(iso));
 
 const size = (n: number) => (n < 1024 ? `${n} B` : n < 1048576 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1048576).toFixed(1)} MiB`);
 
-/** Recorded uploads, newest first: which one counts, late ones marked, every file with its SHA-256. */
-export function UploadList({ uploads, timeZone }: { uploads: UploadRow[]; timeZone: string }) {
+/**
+ * Recorded uploads, newest first: which one counts (picked or newest), late ones marked, the repository commit and
+ * licence, every file with its SHA-256; the crew can pick an earlier on-time upload as the one judged.
+ */
+export function UploadList({ uploads, timeZone, canChoose = false }: { uploads: UploadRow[]; timeZone: string; canChoose?: boolean }) {
   if (uploads.length === 0) return <p className="text-mute">No uploads yet.</p>;
   return (
     <ol className="grid gap-3" aria-label="Uploads">
@@ -14,14 +18,37 @@ export function UploadList({ uploads, timeZone }: { uploads: UploadRow[]; timeZo
           <div className="flex flex-wrap items-center justify-between gap-2">
             <span className="text-lg font-bold">Upload #{u.number}</span>
             {u.counts ? (
-              <span className="rounded-full bg-pass-soft px-2.5 py-0.5 text-xs font-semibold text-pass">Counts</span>
+              <span className="rounded-full bg-pass-soft px-2.5 py-0.5 text-xs font-semibold text-pass">{u.picked ? "Counts — picked as final" : "Counts"}</span>
             ) : u.state === "late" ? (
               <span className="rounded-full bg-fail-soft px-2.5 py-0.5 text-xs font-semibold text-fail">Late — not judged</span>
             ) : (
               <span className="rounded-full bg-line px-2.5 py-0.5 text-xs font-semibold text-ink-soft">Replaced</span>
             )}
           </div>
-          <p className="text-sm text-mute">{fmt(u.completedAt, timeZone)}</p>
+          <p className="text-sm text-mute">
+            {fmt(u.completedAt, timeZone)}
+            {u.lateException && <span className="ml-2 rounded-full bg-violet-soft px-2 py-0.5 text-xs font-semibold text-violet">after the deadline, under the late exception</span>}
+          </p>
+          {u.repository && (
+            <p className="mt-1 text-sm" data-testid={`upload-${u.number}-commit`}>
+              From <span className="break-all">{u.repository.url}</span> at commit <span className="font-mono text-xs break-all">{u.repository.commit}</span>
+            </p>
+          )}
+          {u.licence && <p className="mt-1 text-sm">Licence: <span className="font-mono">{u.licence}</span></p>}
+          {canChoose && u.state === "complete" && !u.counts && (
+            <Form method="post" className="mt-2">
+              <input type="hidden" name="intent" value="final" />
+              <input type="hidden" name="upload" value={u.number} />
+              <button type="submit" className="btn-quiet">Judge this upload instead</button>
+            </Form>
+          )}
+          {canChoose && u.picked && (
+            <Form method="post" className="mt-2">
+              <input type="hidden" name="intent" value="final" />
+              <input type="hidden" name="upload" value="newest" />
+              <button type="submit" className="btn-quiet">Let the newest upload count again</button>
+            </Form>
+          )}
           <table className="mt-2 w-full text-left text-sm">
             <thead className="text-xs text-mute">
               <tr>

@@ -1,6 +1,14 @@
 import { useEffect, useRef, useState } from "react";
 import type { PlannedFile } from "~/entries/shapes";
 import { ACCEPT_ATTR, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "~/entries/sniff";
+import { checkCommit } from "~/sources/repository-link";
+
+/** What the compo's ruleset lets the panel offer. */
+export interface UploadPanelOptions {
+  repositoryAllowed: boolean;
+  licenceRequired: boolean;
+  openLicencesOnly: boolean;
+}
 
 /**
  * The browser side of an upload: files go straight to S3 in presigned multipart parts. Each file has its own
@@ -44,8 +52,16 @@ const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const storageKey = (entryId: string) => `gatecrash-upload:${entryId}`;
 const fmtSize = (n: number) => (n < 1024 ? `${n} B` : n < 1048576 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1048576).toFixed(1)} MiB`);
 
-export function UploadPanel({ entryId, limits, onRecorded }: { entryId: string; limits: Record<FileKind, number>; onRecorded: () => void }) {
+export function UploadPanel({ entryId, limits, options, onRecorded }: { entryId: string; limits: Record<FileKind, number>; options: UploadPanelOptions; onRecorded: () => void }) {
   const [files, setFiles] = useState<Partial<Record<FileKind, File>>>({});
+  const [sourceMode, setSourceMode] = useState<"bundle" | "repository">("bundle");
+  const [repoUrl, setRepoUrl] = useState("");
+  const [commit, setCommit] = useState("");
+  const [licence, setLicence] = useState("");
+  const [sourceErrors, setSourceErrors] = useState<Record<string, string>>({});
+  const fromRepository = options.repositoryAllowed && sourceMode === "repository";
+  const kinds = FILE_KINDS.filter((k) => !(fromRepository && k === "bundle"));
+  const required = REQUIRED_KINDS.filter((k) => kinds.includes(k));
   const [status, setStatus] = useState<Partial<Record<FileKind, FileStatus>>>({});
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState<{ tone: "ok" | "warn" | "error"; text: string } | null>(null);
@@ -119,8 +135,20 @@ export function UploadPanel({ entryId, limits, onRecorded }: { entryId: string; 
 
   async function run() {
     setMessage(null);
-    const chosen = FILE_KINDS.filter((k) => files[k]);
-    const missing = REQUIRED_KINDS.filter((k) => !files[k]);
+    setSourceErrors({});
+    const chosen = kinds.filter((k) => files[k]);
+    const missing = required.filter((k) => !files[k]);
+    if (fromRepository) {
+      const c = checkCommit(commit);
+      const problems: Record<string, string> = {};
+      if (!repoUrl.trim()) problems.repository = "Give the repository's link.";
+      if (!c.ok) problems.commit = c.message;
+      if (Object.keys(problems).length) {
+        setSourceErrors(problems);
+        setMessage({ tone: "error", text: "The repository link or commit needs fixing; see beside it." });
+        return;
+      }
+    }
     if (missing.length) {
       setMessage({ tone: "error", text: `Choose ${missing.map((k) => KIND_LABELS[k]).join(" and ")} first.` });
       return;
@@ -142,9 +170,13 @@ export function UploadPanel({ entryId, limits, onRecorded }: { entryId: string; 
       if (!current) {
         const started = await api<{ uploadId: string; files: PlannedFile[] }>(`/api/entries/${entryId}/uploads`, {
           files: chosen.map((k) => ({ kind: k, filename: files[k]!.name, size: files[k]!.size })),
+          repository: fromRepository ? { url: repoUrl.trim(), commit: commit.trim() } : null,
+          licence: licence.trim() || null,
         });
         if (!started.ok) {
-          for (const [k, errs] of Object.entries(started.error.fieldErrors ?? {})) set(k as FileKind, { phase: "error", message: errs.join(" ") });
+          const sourceKeys = ["repository", "commit", "licence"];
+          setSourceErrors(Object.fromEntries(Object.entries(started.error.fieldErrors ?? {}).filter(([k]) => sourceKeys.includes(k)).map(([k, v]) => [k, v.join(" ")])));
+          for (const [k, errs] of Object.entries(started.error.fieldErrors ?? {})) if (!sourceKeys.includes(k)) set(k as FileKind, { phase: "error", message: errs.join(" ") });
           setMessage({ tone: "error", text: started.error.message });
           return;
         }
@@ -209,7 +241,7 @@ export function UploadPanel({ entryId, limits, onRecorded }: { entryId: string; 
     >
       <h2 id="upload-heading" className="mb-1 text-lg font-bold">New upload</h2>
       <p className="mb-4 text-sm text-ink-soft">
-        Source bundle and layout are required; the capture video and a still are optional. Every upload is kept and numbered; the newest on-time one counts.
+        Sources (a bundle file{options.repositoryAllowed ? ", or a repository link and commit" : ""}) and the layout are required; the capture video and a still are optional. Every upload is kept and numbered; the newest on-time one counts unless you pick an earlier one.
       </p>
       {saved && !busy && (
         <div role="status" className="mb-4 rounded-md border border-warn bg-warn-soft px-3 py-2 text-sm text-warn">
@@ -217,8 +249,39 @@ export function UploadPanel({ entryId, limits, onRecorded }: { entryId: string; 
           <button type="button" className="font-semibold underline" onClick={() => void discard()}>discard it</button>.
         </div>
       )}
+      {options.repositoryAllowed && (
+        <fieldset className="mb-4">
+          <legend className="label">Sources from</legend>
+          <div className="flex flex-wrap gap-4 text-sm">
+            {(["bundle", "repository"] as const).map((m) => (
+              <label key={m} className="flex items-center gap-2">
+                <input type="radio" name="source-mode" value={m} checked={sourceMode === m} disabled={busy || Boolean(saved)} onChange={() => setSourceMode(m)} />
+                {m === "bundle" ? "a bundle file (.zip, .tar.gz)" : "a repository link and commit"}
+              </label>
+            ))}
+          </div>
+        </fieldset>
+      )}
+      {fromRepository && (
+        <div className="mb-4 grid gap-3">
+          <TextField id="upload-repository" label="Repository link (https://…, public)" value={repoUrl} onChange={setRepoUrl} error={sourceErrors.repository} disabled={busy} placeholder="https://code.example.org/crew/entry.git" hint="Gatecrash fetches exactly the commit below, without submodules unless this compo allows them, and never with a password." />
+          <TextField id="upload-commit" label="Commit (full hash from git rev-parse HEAD)" value={commit} onChange={setCommit} error={sourceErrors.commit} disabled={busy} mono placeholder="40 hex digits" />
+        </div>
+      )}
+      <div className="mb-4">
+        <TextField
+          id="upload-licence"
+          label={`Licence of your sources (SPDX identifier)${options.licenceRequired ? "" : ", optional"}`}
+          value={licence}
+          onChange={setLicence}
+          error={sourceErrors.licence}
+          disabled={busy}
+          placeholder="e.g. MIT, Apache-2.0, CERN-OHL-P-2.0"
+          hint={options.openLicencesOnly ? "This compo takes only OSI-approved open source licences." : "An SPDX identifier or expression, e.g. MIT OR Apache-2.0."}
+        />
+      </div>
       <div className="grid gap-4">
-        {FILE_KINDS.map((k) => {
+        {kinds.map((k) => {
           const s = status[k];
           const f = files[k];
           const pct = f && s ? Math.round((100 * s.sent) / Math.max(1, f.size)) : 0;
@@ -227,7 +290,7 @@ export function UploadPanel({ entryId, limits, onRecorded }: { entryId: string; 
           return (
             <div key={k}>
               <label htmlFor={id} className="label">
-                {KIND_LABELS[k]} {REQUIRED_KINDS.includes(k) ? <span className="text-signal">(required)</span> : <span className="text-mute">(optional)</span>}
+                {KIND_LABELS[k]} {required.includes(k) ? <span className="text-signal">(required)</span> : <span className="text-mute">(optional)</span>}
               </label>
               <input
                 id={id}
@@ -266,5 +329,28 @@ export function UploadPanel({ entryId, limits, onRecorded }: { entryId: string; 
         {busy ? "Uploading…" : saved || anyPaused ? "Resume upload" : "Upload"}
       </button>
     </form>
+  );
+}
+
+function TextField(p: { id: string; label: string; value: string; onChange: (v: string) => void; error?: string; hint?: string; disabled?: boolean; placeholder?: string; mono?: boolean }) {
+  return (
+    <div>
+      <label htmlFor={p.id} className="label">{p.label}</label>
+      <input
+        id={p.id}
+        type="text"
+        className={`field ${p.mono ? "font-mono" : ""}`}
+        value={p.value}
+        disabled={p.disabled}
+        placeholder={p.placeholder}
+        spellCheck={false}
+        autoComplete="off"
+        aria-invalid={p.error ? true : undefined}
+        aria-describedby={p.error ? `${p.id}-error` : p.hint ? `${p.id}-hint` : undefined}
+        onChange={(e) => p.onChange(e.currentTarget.value)}
+      />
+      {p.hint && <p id={`${p.id}-hint`} className="mt-1 text-xs text-mute">{p.hint}</p>}
+      {p.error && <p id={`${p.id}-error`} className="field-error" role="alert">{p.error}</p>}
+    </div>
   );
 }

@@ -2,9 +2,11 @@ import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { readLayoutFile } from "~/gdsii/reader.server";
 import { checkLayout } from "~/layout/check-layout";
+import { layoutMatchesSource, type SourceSide } from "~/layout/matches-source";
 import { layoutPictureSvg } from "~/layout/layout-picture";
 import { layoutThumbnailPng } from "~/layout/layout-thumbnail";
 import { extractBundle } from "~/sources/intake.server";
+import { fetchRepositoryStep } from "~/sources/repository-step.server";
 import { precheckPassed, precheckSources } from "~/sources/precheck.server";
 import { runSourceChecks } from "~/sources/yosys.server";
 import { compareVideoFile } from "~/simulation/compare-video.server";
@@ -29,6 +31,8 @@ export interface PipelineInput {
   ruleset: Ruleset;
   workDir: string;
   bundlePath?: string;
+  /** Sources by repository link instead of a bundle: fetched first (app/sources/repository.server.ts), then taken as a bundle. */
+  repository?: { url: string; commit: string; allowLoopback: boolean };
   layoutPath?: string;
   videoPath?: string;
   /** Files that were uploaded but cannot be used (the caller found them changed since the receipt): reported instead. */
@@ -131,16 +135,27 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
     await emit(name, part);
   };
 
+  // 0. A repository link: its commit is fetched into a tree archive, which the intake then takes like a bundle
+  let bundlePath = input.bundlePath;
+  const repository = input.repository;
+  if (repository) {
+    await step("intake", async () => {
+      const fetched = await fetchRepositoryStep(repository, ruleset, join(workDir, "repository"));
+      bundlePath = fetched.archivePath ?? undefined;
+      return { findings: fetched.findings, figures: { repository: fetched.figures } };
+    });
+  }
+
   // 1. Bundle intake
   let sourceDir: string | null = null;
   let verilogFiles: string[] = [];
   let sourceLines: number | null = null;
   if (input.refused?.bundle) {
     await emit("intake", { findings: [input.refused.bundle] });
-  } else if (input.bundlePath) {
-    const bundlePath = input.bundlePath;
+  } else if (bundlePath) {
+    const archive = bundlePath;
     await step("intake", async () => {
-      const manifest = await extractBundle(bundlePath, join(workDir, "src"), ruleset.uploadLimits);
+      const manifest = await extractBundle(archive, join(workDir, "src"), ruleset.uploadLimits);
       sourceDir = join(workDir, "src");
       verilogFiles = manifest.verilogFiles;
       sourceLines = manifest.sourceLines;
@@ -153,12 +168,13 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
         ],
       };
     });
-  } else {
+  } else if (!repository) {
     await skip("intake", "no source bundle in this upload");
   }
 
   // 2. Pre-check, then 3. yosys — only on a bundle that unpacked
   let sourceClean = false;
+  let synthesized: SourceSide | null = null;
   const readable = (): string | null => (verilogFiles.length > 0 ? sourceDir : null);
   const srcDir = readable();
   if (srcDir) {
@@ -172,6 +188,7 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
       await step("source", async () => {
         const src = await runSourceChecks(srcDir, verilogFiles, ruleset, { scratchDir: join(workDir, "scratch") });
         sourceClean = src.figures.top !== null && !src.findings.some((f) => f.rule.startsWith("source.top") && f.verdict === "fail");
+        if (sourceClean && !src.findings.some((f) => f.rule === "source.yosys")) synthesized = src.figures;
         return { findings: src.findings, figures: { source: { ...src.figures, sourceLines } } };
       });
     } else {
@@ -190,14 +207,19 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
   } else if (input.layoutPath) {
     const layoutPath = input.layoutPath;
     await step("layout", async () => {
-      const summary = await readLayoutFile(layoutPath, { collectPlacements: 20_000 });
+      // A .gds.gz is inflated on the fly and held to the same size limit as a plain layout.
+      const summary = await readLayoutFile(layoutPath, { collectPlacements: 20_000, limits: { maxBytes: ruleset.uploadLimits.layoutBytes } });
       const checked = checkLayout(summary, ruleset);
+      const against = synthesized as SourceSide | null;
+      const matched = against ? layoutMatchesSource(against, checked.figures, ruleset) : [];
+      const skipped = against ? [] : [{ step: "layout" as const, reason: "no synthesized source to hold the layout against (flip-flops, ports)" }];
       const svgPath = join(workDir, "layout.svg");
       writeFileSync(svgPath, layoutPictureSvg(summary, ruleset, { dieUm: checked.figures.dieUm, title: summary.topCell ?? "layout" }));
       const pngPath = join(workDir, "layout.png");
       writeFileSync(pngPath, layoutThumbnailPng(summary, ruleset, { dieUm: checked.figures.dieUm, widthPx: 480 }));
       return {
-        findings: checked.findings,
+        findings: [...checked.findings, ...matched],
+        skipped,
         figures: { layout: { ...checked.figures, topCells: summary.topCells, labels: summary.labels, instances: summary.instances, layers: summary.layers } },
         artifacts: [...artifact("layout-svg", svgPath), ...artifact("layout-png", pngPath)],
       };

@@ -39,6 +39,11 @@ export async function queueCheckRun(uploadId: string): Promise<string> {
   return run.id;
 }
 
+/** A run that waits without a job of its own (its upload became worth checking again: the crew picked it). */
+export async function resendCheckRun(checkRunId: string, entryId: string): Promise<void> {
+  await send(checkRunId, entryId);
+}
+
 /** After a failed attempt (the run is back in state "queued"): behind every first attempt, after a pause. */
 export async function requeueCheckRun(checkRunId: string): Promise<void> {
   const [row] = await db()

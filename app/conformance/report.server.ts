@@ -1,23 +1,19 @@
-import { and, asc, desc, eq } from "drizzle-orm";
+import { asc, desc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { artifacts, checkRuns, findings, uploads } from "~/db/schema";
+import { countingUploadOf } from "~/entries/counting.server";
 import { queuePlaceOf } from "./queue.server";
 import type { EntryCheck } from "./report-types";
 
 export type { EntryCheck } from "./report-types";
 
 /**
- * The latest check run of an entry's counting upload (the newest complete, on-time one), with its findings and
+ * The latest check run of an entry's counting upload (the crew's pick, else the newest on-time one), with its findings and
  * artifacts. Artifacts are served through /artifacts/:id, which checks who may see them.
  */
 export async function countingUpload(entryId: string): Promise<{ id: string; number: number } | null> {
-  const [u] = await db()
-    .select({ id: uploads.id, number: uploads.number })
-    .from(uploads)
-    .where(and(eq(uploads.entryId, entryId), eq(uploads.state, "complete")))
-    .orderBy(desc(uploads.number))
-    .limit(1);
-  return u ?? null;
+  // the crew's final pick, else the newest counting upload (app/entries/counting.server.ts)
+  return countingUploadOf(entryId);
 }
 
 export async function checkOfUpload(uploadId: string, uploadNumber: number): Promise<EntryCheck> {

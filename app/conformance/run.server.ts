@@ -1,19 +1,20 @@
-import { and, desc, eq, inArray, ne, sql } from "drizzle-orm";
+import { and, desc, eq, inArray, ne, notInArray, sql } from "drizzle-orm";
 import { mkdirSync, readFileSync, rmSync } from "node:fs";
 import { join } from "node:path";
 import { db, type Db } from "~/db/client.server";
 import { artifacts, checkRuns, competitions, entries, findings, uploads } from "~/db/schema";
 import { worstVerdict, type CheckStep, type Finding } from "~/rules/findings";
+import { env } from "~/env.server";
 import { parseRuleset } from "~/rules/ruleset";
 import { putObject } from "~/storage/s3.server";
 import { fetchUploadInputs } from "./inputs.server";
-import { requeueCheckRun } from "./queue.server";
+import { requeueCheckRun, resendCheckRun } from "./queue.server";
 import { runPipeline, type StepReport } from "./pipeline.server";
 import { runWorkDir } from "./workdir.server";
 
 /**
- * The worker's side of a check run. A job names a run; the worker checks the newest counting upload of that
- * run's entry (older queued runs are marked superseded and never cost a build). Each attempt is numbered, and
+ * The worker's side of a check run. A job names a run; the worker checks the entry's newest upload, or the one
+ * its crew picked as final (other queued runs are marked superseded and never cost a build). Each attempt is numbered, and
  * every write of an attempt is fenced on that number, so a stalled attempt that pg-boss handed to another worker
  * cannot mix its results into the new one. Findings, figures and artifacts are written step by step as the
  * pipeline reports them; the run is done, or tried again when Gatecrash (not the upload) failed a step.
@@ -43,46 +44,52 @@ interface Claimed {
   uploadId: string;
   entryId: string;
   ruleset: unknown;
+  repository: { url: string; commit: string } | null;
 }
 
-async function newestUploadOf(tx: Db | Tx, entryId: string): Promise<string | null> {
+/** The uploads of an entry worth a check: the newest complete one, and the one the crew picked as final. */
+async function uploadsWorthChecking(tx: Db | Tx, entryId: string): Promise<{ newest: string | null; keep: string[] }> {
   const [u] = await tx
     .select({ id: uploads.id })
     .from(uploads)
     .where(and(eq(uploads.entryId, entryId), eq(uploads.state, "complete")))
     .orderBy(desc(uploads.number))
     .limit(1);
-  return u?.id ?? null;
+  const [e] = await tx.select({ pick: entries.finalUploadId }).from(entries).where(eq(entries.id, entryId));
+  const newest = u?.id ?? null;
+  return { newest, keep: [...new Set([newest, e?.pick ?? null].filter((id): id is string => id !== null))] };
 }
 
 /**
  * Picks the run this job should execute and starts a new attempt of it. The job's own run when its upload is
- * still the newest; else the newest upload's run, if that one still waits. Older waiting runs become superseded.
+ * still worth checking (the newest, or the crew's pick); else the newest upload's run, if that one still waits.
+ * Other waiting runs become superseded.
  */
 async function claim(checkRunId: string): Promise<Claimed | "skipped" | "superseded"> {
   return db().transaction(async (tx) => {
     const [row] = await tx
-      .select({ entryId: uploads.entryId })
+      .select({ entryId: uploads.entryId, uploadId: checkRuns.uploadId })
       .from(checkRuns)
       .innerJoin(uploads, eq(uploads.id, checkRuns.uploadId))
       .where(eq(checkRuns.id, checkRunId));
     if (!row) return "skipped";
     // One entry's runs are claimed one at a time (two workers may hold jobs of the same entry).
     await tx.select({ id: entries.id }).from(entries).where(eq(entries.id, row.entryId)).for("update");
-    const newest = await newestUploadOf(tx, row.entryId);
-    const older = tx.select({ id: uploads.id }).from(uploads).where(and(eq(uploads.entryId, row.entryId), newest ? ne(uploads.id, newest) : sql`true`));
+    const { newest, keep } = await uploadsWorthChecking(tx, row.entryId);
+    const older = tx.select({ id: uploads.id }).from(uploads).where(and(eq(uploads.entryId, row.entryId), keep.length ? notInArray(uploads.id, keep) : sql`true`));
     await tx
       .update(checkRuns)
       .set({ state: "superseded", step: null, finishedAt: new Date() })
       .where(and(eq(checkRuns.state, "queued"), inArray(checkRuns.uploadId, older)));
-    if (!newest) return "superseded";
+    const checked = keep.includes(row.uploadId) ? row.uploadId : newest;
+    if (!checked) return "superseded";
     const [target] = await tx
-      .select({ run: checkRuns, ruleset: competitions.ruleset })
+      .select({ run: checkRuns, ruleset: competitions.ruleset, repositoryUrl: uploads.repositoryUrl, repositoryCommit: uploads.repositoryCommit })
       .from(checkRuns)
       .innerJoin(uploads, eq(uploads.id, checkRuns.uploadId))
       .innerJoin(entries, eq(entries.id, uploads.entryId))
       .innerJoin(competitions, eq(competitions.id, entries.competitionId))
-      .where(eq(checkRuns.uploadId, newest))
+      .where(eq(checkRuns.uploadId, checked))
       .orderBy(desc(checkRuns.queuedAt))
       .limit(1)
       .for("update", { of: checkRuns });
@@ -99,7 +106,8 @@ async function claim(checkRunId: string): Promise<Claimed | "skipped" | "superse
     // What an earlier attempt wrote goes; this attempt writes everything again.
     await tx.delete(findings).where(eq(findings.checkRunId, target.run.id));
     await tx.delete(artifacts).where(eq(artifacts.checkRunId, target.run.id));
-    return { runId: target.run.id, attempt: started.attempts, uploadId: newest, entryId: row.entryId, ruleset: target.ruleset };
+    const repository = target.repositoryUrl && target.repositoryCommit ? { url: target.repositoryUrl, commit: target.repositoryCommit } : null;
+    return { runId: target.run.id, attempt: started.attempts, uploadId: checked, entryId: row.entryId, ruleset: target.ruleset, repository };
   });
 }
 
@@ -151,7 +159,7 @@ function stepWriter(c: Claimed) {
 }
 
 async function enterStep(c: Claimed, step: CheckStep): Promise<void> {
-  if ((await newestUploadOf(db(), c.entryId)) !== c.uploadId) throw new Superseded();
+  if (!(await uploadsWorthChecking(db(), c.entryId)).keep.includes(c.uploadId)) throw new Superseded();
   await fenced(c, (tx) => tx.update(checkRuns).set({ step }).where(eq(checkRuns.id, c.runId)));
 }
 
@@ -173,9 +181,31 @@ async function failAttempt(c: Claimed, message: string): Promise<"retry" | "erro
   return "retry";
 }
 
+/**
+ * The entry's other runs that still wait for uploads worth checking (a crew's pick whose job was folded into this
+ * one by the queue's one-job-per-entry rule) get a job again once this attempt has ended.
+ */
+async function wakeWaitingRuns(entryId: string, exceptRunId: string): Promise<void> {
+  const { keep } = await uploadsWorthChecking(db(), entryId);
+  if (keep.length === 0) return;
+  const waiting = await db()
+    .select({ id: checkRuns.id })
+    .from(checkRuns)
+    .where(and(eq(checkRuns.state, "queued"), inArray(checkRuns.uploadId, keep), ne(checkRuns.id, exceptRunId)));
+  for (const w of waiting) await resendCheckRun(w.id, entryId);
+}
+
 export async function executeCheckRun(checkRunId: string, opts: { simulate?: boolean } = {}): Promise<CheckRunOutcome> {
   const c = await claim(checkRunId);
   if (typeof c === "string") return c;
+  try {
+    return await executeClaimed(c, opts);
+  } finally {
+    await wakeWaitingRuns(c.entryId, c.runId);
+  }
+}
+
+async function executeClaimed(c: Claimed, opts: { simulate?: boolean }): Promise<CheckRunOutcome> {
   const workDir = runWorkDir(c.runId, c.attempt);
   rmSync(workDir, { recursive: true, force: true });
   mkdirSync(join(workDir, "in"), { recursive: true });
@@ -185,6 +215,7 @@ export async function executeCheckRun(checkRunId: string, opts: { simulate?: boo
       ruleset: parseRuleset(c.ruleset),
       workDir: join(workDir, "work"),
       bundlePath: inputs.paths.bundle,
+      repository: c.repository ? { ...c.repository, allowLoopback: env().REPOSITORY_FETCH_LOOPBACK === "allow" } : undefined,
       layoutPath: inputs.paths.layout,
       videoPath: inputs.paths.video,
       refused: inputs.refused,

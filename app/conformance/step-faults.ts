@@ -15,7 +15,7 @@ export function inputFaultFinding(step: CheckStep, error: unknown): Finding | nu
     return { step, rule: `intake.${error.code}`, verdict: "fail", title: "The source bundle was refused", evidence: error.message, advice: "Pack plain Verilog files into a .zip or .tar.gz without links, absolute paths or '..'." };
   }
   if (error instanceof GdsiiError) {
-    return { step, rule: "layout.read", verdict: "fail", title: "The layout could not be read as GDSII", evidence: error.message, advice: "Export the layout again as a GDSII stream file (.gds) and upload that file." };
+    return { step, rule: "layout.read", verdict: "fail", title: "The layout could not be read as GDSII", evidence: error.message, advice: "Export the layout again as a GDSII stream file (.gds, or gzip-compressed .gds.gz) and upload that file." };
   }
   if (step === "capture" && (error instanceof VideoDecodeError || error instanceof CompareError)) {
     const log = error instanceof VideoDecodeError && error.log ? `: ${error.log.trim().split("\n").slice(-3).join(" / ")}` : "";

@@ -1,5 +1,6 @@
 import { sql } from "drizzle-orm";
 import {
+  type AnyPgColumn,
   bigint,
   boolean,
   doublePrecision,
@@ -252,6 +253,13 @@ export const entries = pgTable(
     state: entryStateEnum("state").notNull().default("active"),
     disqualifiedReason: text("disqualified_reason"),
     feeState: feeStateEnum("fee_state").notNull().default("unpaid"),
+    /** The crew's pick among its on-time uploads; null: the newest on-time upload counts. */
+    finalUploadId: uuid("final_upload_id").references((): AnyPgColumn => uploads.id, { onDelete: "set null" }),
+    /** An organizer's late exception for this one entry: uploads until then count; the reason is shown to the jury. */
+    lateUntil: ts("late_until"),
+    lateReason: text("late_reason"),
+    lateGrantedBy: text("late_granted_by").references(() => user.id, { onDelete: "set null" }),
+    lateGrantedAt: ts("late_granted_at"),
     createdAt: created(),
     updatedAt: ts("updated_at").notNull().defaultNow(),
   },
@@ -271,6 +279,13 @@ export const uploads = pgTable(
     number: integer("number").notNull(),
     state: uploadStateEnum("state").notNull().default("pending"),
     submittedBy: text("submitted_by").references(() => user.id),
+    /** Sources by repository link instead of a bundle file: the link and the full commit hash the crew gave. */
+    repositoryUrl: text("repository_url"),
+    repositoryCommit: text("repository_commit"),
+    /** The licence of the upload's sources, an SPDX license expression. */
+    licence: text("licence"),
+    /** Recorded after the deadline, within the organizer's late exception for the entry. */
+    lateException: boolean("late_exception").notNull().default(false),
     createdAt: created(),
     completedAt: ts("completed_at"),
   },

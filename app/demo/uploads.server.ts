@@ -1,31 +1,17 @@
 import { eq } from "drizzle-orm";
 import { readFileSync } from "node:fs";
 import { createHash } from "node:crypto";
-import yazl from "yazl";
+import { zipBuffer } from "~/storage/zip.server";
 import type { Db } from "~/db/client.server";
 import { entries, uploadFiles, uploads } from "~/db/schema";
-import { DEMO_RULESET } from "~/rules/ruleset";
 import { queueCheckRun } from "~/conformance/queue.server";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
 import { putObject } from "~/storage/s3.server";
 import { DEMO_DESIGNS, designPath } from "../../demo/designs/index";
+import { demoEntryLayout } from "../../demo/designs/layouts";
 
 const DAY = 24 * 3600 * 1000;
 
-function zipOf(name: string, contents: Buffer): Promise<Buffer> {
-  const zip = new yazl.ZipFile();
-  zip.addBuffer(contents, name, { mtime: new Date("2027-01-01T00:00:00Z") });
-  zip.end();
-  const chunks: Buffer[] = [];
-  return new Promise((resolve, reject) => {
-    zip.outputStream.on("data", (c: Buffer) => chunks.push(c));
-    zip.outputStream.on("end", () => resolve(Buffer.concat(chunks)));
-    zip.outputStream.on("error", reject);
-  });
-}
-
-/** Demo layouts: mostly single tiles; one crew took two tiles side by side. */
-const LAYOUT_SHAPES: Record<string, string> = { "copper-sine": "wide" };
+const zipOf = (name: string, contents: Buffer) => zipBuffer({ [name]: contents }, new Date("2027-01-01T00:00:00Z"));
 
 /**
  * Gives every demo entry real files — its Verilog packed as a .zip and a GDSII layout generated for it —
@@ -39,9 +25,8 @@ export async function seedDemoUploads(db: Db, entryIds: string[], now = new Date
     const [entry] = await db.select().from(entries).where(eq(entries.id, entryId));
     const completedAt = design.competition === "judging" ? new Date(now.getTime() - 3 * DAY + i * 3600_000) : new Date(now.getTime() - i * 3600_000);
     const bundle = await zipOf(`${design.slug}.v`, readFileSync(designPath(design.slug)));
-    const layout = Buffer.from(
-      generateDemoLayout({ ruleset: DEMO_RULESET, shape: LAYOUT_SHAPES[design.slug] ?? "single", flipFlops: 40 + 10 * i, logicCells: 300 + 40 * i, seed: i + 1, libName: design.slug }).bytes,
-    );
+    // Each layout is its design's: the same flip-flops and ports (demo/designs/layouts.ts).
+    const layout = Buffer.from(demoEntryLayout(design.slug).bytes);
     const [upload] = await db.insert(uploads).values({ entryId: entry.id, number: 1, state: "complete", createdAt: completedAt, completedAt }).returning();
     for (const [kind, bytes, filename, mediaType] of [
       ["bundle", bundle, `${design.slug}.zip`, "application/zip"],

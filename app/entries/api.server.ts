@@ -10,7 +10,12 @@ export const claimedFileSchema = z.object({
   size: z.number().int().min(0).max(Number.MAX_SAFE_INTEGER),
 });
 
-export const startUploadSchema = z.object({ files: z.array(claimedFileSchema).min(1, "Choose the files to upload.").max(4) });
+export const startUploadSchema = z.object({
+  files: z.array(claimedFileSchema).min(1, "Choose the files to upload.").max(4),
+  /** Sources by repository link and full commit hash instead of a bundle file. */
+  repository: z.object({ url: z.string().max(2000), commit: z.string().max(200) }).nullish(),
+  licence: z.string().max(500).nullish(),
+});
 export const uploadActionSchema = z.object({ action: z.enum(["complete", "abandon"]) });
 export const fileActionSchema = z.discriminatedUnion("action", [
   z.object({ action: z.literal("sign"), partNumbers: z.array(z.number().int()).min(1).max(100) }),

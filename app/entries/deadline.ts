@@ -21,3 +21,23 @@ export function splitDuration(ms: number): { days: number; hours: number; minute
   const s = Math.floor(ms / 1000);
   return { days: Math.floor(s / 86400), hours: Math.floor((s % 86400) / 3600), minutes: Math.floor((s % 3600) / 60), seconds: s % 60 };
 }
+
+export type Timeliness = "on-time" | "exception" | "late";
+
+/**
+ * Whether an upload completed at `at` counts: before the cutoff it is on time; after it, it still counts while an
+ * organizer's late exception for the entry runs (strictly before `lateUntil`); otherwise it is late.
+ */
+export function timelinessOf(at: Date, deadlineAt: Date | null, graceMinutes: number, lateUntil: Date | null): Timeliness {
+  if (isOnTime(at, deadlineAt, graceMinutes)) return "on-time";
+  return lateUntil && at.getTime() < lateUntil.getTime() ? "exception" : "late";
+}
+
+/** Competition states in which an entry's own late exception still lets it upload (judging and results never). */
+export const EXCEPTION_STATES: readonly string[] = ["open", "closed"];
+
+/** Whether the entry takes uploads (and a change of its final pick) now: open and on time, or within its exception. */
+export function uploadWindowOpen(competitionState: string, entryState: string, when: Timeliness): boolean {
+  if (entryState !== "active" || when === "late") return false;
+  return competitionState === "open" || (when === "exception" && EXCEPTION_STATES.includes(competitionState));
+}

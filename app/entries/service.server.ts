@@ -5,6 +5,7 @@ import { db } from "~/db/client.server";
 import { parseRuleset, type Ruleset } from "~/rules/ruleset";
 import { audit } from "~/audit/log.server";
 import { cutoffOf } from "./deadline";
+import { countingUploads } from "./counting.server";
 import type { UploadRow } from "./shapes";
 import { isId } from "~/security/ids";
 
@@ -100,14 +101,18 @@ export async function uploadsOfEntry(entryId: string): Promise<UploadRow[]> {
     .select()
     .from(uploadFiles)
     .where(and(inArray(uploadFiles.uploadId, ups.map((u) => u.id)), eq(uploadFiles.state, "confirmed")));
-  const counting = ups.find((u) => u.state === "complete")?.id;
+  const counting = (await countingUploads([entryId])).get(entryId);
   const order = ["bundle", "layout", "video", "still"];
   return ups.map((u) => ({
     id: u.id,
     number: u.number,
     state: u.state as "complete" | "late",
     completedAt: (u.completedAt ?? u.createdAt).toISOString(),
-    counts: u.id === counting,
+    counts: u.id === counting?.id,
+    picked: u.id === counting?.id && counting.picked,
+    lateException: u.lateException,
+    repository: u.repositoryUrl && u.repositoryCommit ? { url: u.repositoryUrl, commit: u.repositoryCommit } : null,
+    licence: u.licence,
     files: files
       .filter((f) => f.uploadId === u.id)
       .sort((a, b) => order.indexOf(a.kind) - order.indexOf(b.kind))

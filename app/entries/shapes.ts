@@ -20,5 +20,11 @@ export interface UploadRow {
   state: "complete" | "late";
   completedAt: string;
   counts: boolean;
+  /** The crew picked this one as final (rather than it counting as the newest). */
+  picked: boolean;
+  /** Recorded after the deadline within the organizer's late exception. */
+  lateException: boolean;
+  repository: { url: string; commit: string } | null;
+  licence: string | null;
   files: { kind: string; filename: string; sizeBytes: number; sha256: string; mediaType: string }[];
 }

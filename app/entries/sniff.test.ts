@@ -21,7 +21,7 @@ describe("sniff", () => {
     const png = bytes(0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a);
     const r = checkKind("layout", "chip.gds", png);
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.message).toMatch(/"chip.gds" is not a GDSII stream: it is a PNG picture/);
+    if (!r.ok) expect(r.message).toMatch(/"chip.gds" is not a GDSII stream or a gzip file: it is a PNG picture/);
     expect(checkKind("still", "shot.png", png)).toEqual({ ok: true, mediaType: "image/png" });
     expect(checkKind("bundle", "src.tar.gz", bytes(0x1f, 0x8b, 8))).toEqual({ ok: true, mediaType: "application/gzip" });
     const text = checkKind("bundle", "top.v", Buffer.from("module top;"));

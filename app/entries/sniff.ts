@@ -10,7 +10,7 @@ export type FileKind = (typeof FILE_KINDS)[number];
 
 export const KIND_LABELS: Record<FileKind, string> = {
   bundle: "Source bundle (.zip or .tar.gz)",
-  layout: "Layout (GDSII)",
+  layout: "Layout (GDSII), .gds or .gds.gz",
   video: "Capture video (WebM or MP4)",
   still: "Still picture (PNG or JPEG)",
 };
@@ -42,7 +42,8 @@ export function sniff(head: Uint8Array): SniffedType | null {
 
 const ACCEPTED: Record<FileKind, SniffedType[]> = {
   bundle: ["application/zip", "application/gzip"],
-  layout: ["application/vnd.gdsii"],
+  // a .gds.gz: the inflated start is checked to be GDSII when the file is confirmed (layout-gzip.server.ts)
+  layout: ["application/vnd.gdsii", "application/gzip"],
   video: ["video/webm", "video/mp4"],
   still: ["image/png", "image/jpeg"],
 };
@@ -71,7 +72,7 @@ export function checkKind(kind: FileKind, filename: string, head: Uint8Array): S
 /** The browser-side hint for the file picker (the server decides from the bytes). */
 export const ACCEPT_ATTR: Record<FileKind, string> = {
   bundle: ".zip,.tar.gz,.tgz,application/zip,application/gzip",
-  layout: ".gds,.gds2,.gdsii",
+  layout: ".gds,.gds2,.gdsii,.gz,application/gzip",
   video: ".webm,.mkv,.mp4,video/webm,video/mp4",
   still: ".png,.jpg,.jpeg,image/png,image/jpeg",
 };

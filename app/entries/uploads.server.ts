@@ -6,12 +6,15 @@ import { queueCheckRun } from "~/conformance/queue.server";
 import { enqueueMail } from "~/mail/outbox.server";
 import { composeMail } from "~/mail/templates";
 import { env } from "~/env.server";
-import { cutoffOf, isOnTime } from "./deadline";
+import { cutoffOf, EXCEPTION_STATES, timelinessOf, uploadWindowOpen } from "./deadline";
+import { checkLicence } from "./licence";
+import { checkCommit, checkRepositoryLink } from "~/sources/repository-link";
 import { formatBytes, partPlan, safeFilename, sizeProblem } from "./parts";
 import type { PlannedFile } from "./shapes";
 import { checkKind, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "./sniff";
 import { rulesetOf } from "./service.server";
 import { isId } from "~/security/ids";
+import { gzipLayoutProblem } from "./layout-gzip.server";
 
 /**
  * Uploads straight from the browser to S3 with presigned multipart parts. The server plans the parts, signs them,
@@ -69,10 +72,38 @@ function planOf(f: typeof uploadFiles.$inferSelect): PlannedFile {
 
 function uploadsOpen(c: typeof competitions.$inferSelect, e: typeof entries.$inferSelect, now: Date): Refusal | null {
   if (e.state !== "active") return refuse(409, "entry_not_active", `This entry is ${e.state}; it takes no uploads.`);
-  if (c.state !== "open") return refuse(409, "competition_not_open", "This competition does not take uploads now.");
+  const when = timelinessOf(now, c.deadlineAt, c.graceMinutes, e.lateUntil);
+  const stateOpen = c.state === "open" || (when === "exception" && EXCEPTION_STATES.includes(c.state));
+  if (!stateOpen) return refuse(409, "competition_not_open", "This competition does not take uploads now.");
   const cutoff = cutoffOf(c.deadlineAt, c.graceMinutes);
-  if (cutoff && now >= cutoff) return refuse(409, "deadline_passed", `The deadline passed at ${cutoff.toISOString()} (server time, UTC). Uploads are closed.`);
+  if (cutoff && !uploadWindowOpen(c.state, e.state, when)) return refuse(409, "deadline_passed", `The deadline passed at ${cutoff.toISOString()} (server time, UTC). Uploads are closed.`);
   return null;
+}
+
+/** What an upload brings besides files: a repository link and commit instead of a bundle, and a licence. */
+export interface UploadSource {
+  repository?: { url: string; commit: string } | null;
+  licence?: string | null;
+}
+
+/** Checks the repository link, commit and licence against the ruleset; the values to store, or field errors. */
+export function sourceProblems(source: UploadSource, ruleset: ReturnType<typeof rulesetOf>, files: ClaimedFile[]) {
+  const problems: Record<string, string[]> = {};
+  const values: { repositoryUrl: string | null; repositoryCommit: string | null; licence: string | null } = { repositoryUrl: null, repositoryCommit: null, licence: null };
+  if (source.repository) {
+    if (!ruleset.repository.allowed) (problems.repository ??= []).push("This compo takes source bundles only, not repository links.");
+    const link = checkRepositoryLink(source.repository.url, { allowLoopback: env().REPOSITORY_FETCH_LOOPBACK === "allow" });
+    if (!link.ok) (problems.repository ??= []).push(link.message);
+    else values.repositoryUrl = link.url;
+    const commit = checkCommit(source.repository.commit);
+    if (!commit.ok) (problems.commit ??= []).push(commit.message);
+    else values.repositoryCommit = commit.commit;
+    if (files.some((f) => f.kind === "bundle")) (problems.bundle ??= []).push("Send either a source bundle or a repository link, not both.");
+  }
+  const licence = checkLicence(source.licence, ruleset.licence);
+  if (!licence.ok) (problems.licence ??= []).push(licence.message);
+  else values.licence = licence.licence;
+  return { problems, values };
 }
 
 /** Starts the file's multipart upload in the store; the row is written by the caller. */
@@ -89,11 +120,11 @@ async function newFileRow(uploadId: string, entryId: string, f: ClaimedFile) {
 }
 
 /** Checks the claimed files against the ruleset before a byte is sent. */
-export function claimProblems(files: ClaimedFile[], ruleset: ReturnType<typeof rulesetOf>, requireAll: boolean): Record<string, string[]> {
+export function claimProblems(files: ClaimedFile[], ruleset: ReturnType<typeof rulesetOf>, required: readonly FileKind[]): Record<string, string[]> {
   const problems: Record<string, string[]> = {};
   const kinds = files.map((f) => f.kind);
   for (const k of FILE_KINDS) if (kinds.filter((x) => x === k).length > 1) (problems[k] ??= []).push(`Only one file for "${KIND_LABELS[k]}".`);
-  if (requireAll) for (const k of REQUIRED_KINDS) if (!kinds.includes(k)) (problems[k] ??= []).push(`${KIND_LABELS[k]} is required.`);
+  for (const k of required) if (!kinds.includes(k)) (problems[k] ??= []).push(`${KIND_LABELS[k]} is required.`);
   for (const f of files) {
     const p = sizeProblem(f.kind, f.filename, f.size, ruleset, "claimed");
     if (p) (problems[f.kind] ??= []).push(p);
@@ -106,12 +137,14 @@ export function claimProblems(files: ClaimedFile[], ruleset: ReturnType<typeof r
  * only once the store has accepted every file of the new one: with the store down, the old upload stays
  * as it was and can still be resumed.
  */
-export async function startUpload(entryId: string, userId: string, files: ClaimedFile[], now = new Date()): Promise<Outcome<{ uploadId: string; files: PlannedFile[] }>> {
+export async function startUpload(entryId: string, userId: string, files: ClaimedFile[], now = new Date(), source: UploadSource = {}): Promise<Outcome<{ uploadId: string; files: PlannedFile[] }>> {
   const row = await entryForUploader(entryId, userId);
   if (!row) return refuse(404, "not_found", "That entry was not found.");
   const closed = uploadsOpen(row.competition, row.entry, now);
   if (closed) return closed;
-  const problems = claimProblems(files, rulesetOf(row.competition.ruleset), true);
+  const ruleset = rulesetOf(row.competition.ruleset);
+  const fromSource = sourceProblems(source, ruleset, files);
+  const problems = { ...claimProblems(files, ruleset, requiredKinds(Boolean(source.repository))), ...fromSource.problems };
   if (Object.keys(problems).length) return refuse(400, "files_refused", "Some files cannot be uploaded.", problems);
 
   const uploadId = crypto.randomUUID();
@@ -128,7 +161,7 @@ export async function startUpload(entryId: string, userId: string, files: Claime
     const stale = await tx.select({ id: uploads.id }).from(uploads).where(and(eq(uploads.entryId, entryId), eq(uploads.state, "pending")));
     if (stale.length) await tx.update(uploads).set({ state: "abandoned" }).where(inArray(uploads.id, stale.map((s) => s.id)));
     const [{ low }] = await tx.select({ low: sql<number>`coalesce(min(${uploads.number}), 0)::int` }).from(uploads).where(eq(uploads.entryId, entryId));
-    await tx.insert(uploads).values({ id: uploadId, entryId, number: Math.min(0, low) - 1, state: "pending", submittedBy: userId });
+    await tx.insert(uploads).values({ id: uploadId, entryId, number: Math.min(0, low) - 1, state: "pending", submittedBy: userId, ...fromSource.values });
     const rows = await tx.insert(uploadFiles).values(values).returning();
     return { rows, stale };
   });
@@ -143,7 +176,8 @@ export async function putFile(uploadId: string, userId: string, f: ClaimedFile, 
   if (up.upload.state !== "pending") return refuse(409, "upload_closed", "This upload is finished; start a new one.");
   const closed = uploadsOpen(up.competition, up.entry, now);
   if (closed) return closed;
-  const problems = claimProblems([f], rulesetOf(up.competition.ruleset), false);
+  const problems = claimProblems([f], rulesetOf(up.competition.ruleset), []);
+  if (f.kind === "bundle" && up.upload.repositoryUrl) problems.bundle = ["This upload takes its sources from the repository link; it has no bundle file."];
   if (Object.keys(problems).length) return refuse(400, "files_refused", "This file cannot be uploaded.", problems);
   const [old] = await db().select().from(uploadFiles).where(and(eq(uploadFiles.uploadId, uploadId), eq(uploadFiles.kind, f.kind)));
   if (old) {
@@ -227,7 +261,8 @@ export async function confirmFile(file: FileRow, ruleset: ReturnType<typeof rule
   const stored = await hashObject(file.s3Key);
   const problem = sizeProblem(file.kind, file.filename, stored.size, ruleset, "stored") ?? (() => {
     const k = checkKind(file.kind, file.filename, stored.head);
-    return k.ok ? null : k.message;
+    if (!k.ok) return k.message;
+    return file.kind === "layout" && k.mediaType === "application/gzip" ? gzipLayoutProblem(file.filename, stored.head) : null;
   })();
   if (problem) {
     await deleteObjectIfAny(file.s3Key);
@@ -272,16 +307,20 @@ export async function completeUpload(uploadId: string, userId: string, now = new
     const files = await tx.select().from(uploadFiles).where(eq(uploadFiles.uploadId, uploadId));
     const unfinished = files.filter((f) => f.state !== "confirmed");
     if (unfinished.length) return refuse(409, "files_unfinished", `Not every file is confirmed yet: ${unfinished.map((f) => `"${f.filename}" (${f.state})`).join(", ")}.`);
-    const missing = REQUIRED_KINDS.filter((k) => !files.some((f) => f.kind === k));
+    const missing = requiredKinds(Boolean(u.repositoryUrl)).filter((k) => !files.some((f) => f.kind === k));
     if (missing.length) return refuse(409, "files_missing", `Missing: ${missing.map((k) => KIND_LABELS[k]).join(", ")}.`);
     const [c] = await tx.select().from(competitions).where(eq(competitions.id, up.competition.id));
-    const late = c.state !== "open" || up.entry.state !== "active" || !isOnTime(now, c.deadlineAt, c.graceMinutes);
+    const [e] = await tx.select().from(entries).where(eq(entries.id, up.entry.id));
+    const when = timelinessOf(now, c.deadlineAt, c.graceMinutes, e.lateUntil);
+    const late = !uploadWindowOpen(c.state, e.state, when);
     const [{ high }] = await tx.select({ high: sql<number>`coalesce(max(${uploads.number}), 0)::int` }).from(uploads).where(and(eq(uploads.entryId, up.entry.id), gt(uploads.number, 0)));
     const [done] = await tx
       .update(uploads)
-      .set({ state: late ? "late" : "complete", number: high + 1, completedAt: now })
+      .set({ state: late ? "late" : "complete", number: high + 1, completedAt: now, lateException: !late && when === "exception" })
       .where(eq(uploads.id, uploadId))
       .returning();
+    // A new upload that counts replaces the crew's earlier pick: the newest counts again until they pick anew.
+    if (!late) await tx.update(entries).set({ finalUploadId: null }).where(eq(entries.id, up.entry.id));
     return { ok: true as const, u: done, already: false };
   });
   if (!result.ok) return result;
@@ -294,7 +333,7 @@ export async function completeUpload(uploadId: string, userId: string, now = new
   await sendUploadReceipt(u.id);
   const message =
     state === "complete"
-      ? `Upload #${u.number} is recorded and counts. Its check run is queued.`
+      ? `Upload #${u.number} is recorded and counts${u.lateException ? " (under the organizer's late exception)" : ""}. Its check run is queued.`
       : `Upload #${u.number} arrived after the deadline. It is kept as late and does not count; the last on-time upload stays in the compo.`;
   return { ok: true, already: result.already, upload: { uploadId: u.id, number: u.number, state, completedAt: (u.completedAt ?? now).toISOString(), message } };
 }
@@ -314,9 +353,7 @@ export async function sendUploadReceipt(uploadId: string): Promise<void> {
   const at = row.upload.completedAt ?? new Date();
   const local = new Intl.DateTimeFormat("en-GB", { dateStyle: "full", timeStyle: "long", timeZone: row.event.timeZone }).format(at);
   const late = row.upload.state === "late";
-  const lines = FILE_KINDS.flatMap((k) => files.filter((f) => f.kind === k)).map(
-    (f) => `${KIND_LABELS[f.kind]}\n  ${f.filename}\n  ${f.sizeBytes} bytes (${formatBytes(f.sizeBytes ?? 0)})\n  SHA-256 ${f.sha256}`,
-  );
+  const lines = receiptLines(row.upload, files);
   for (const m of members) {
     await enqueueMail(
       composeMail(
@@ -327,15 +364,37 @@ export async function sendUploadReceipt(uploadId: string): Promise<void> {
           `Server time: ${at.toISOString()} (UTC) — ${local} (${row.event.timeZone}).`,
           late
             ? "It arrived after the deadline, so it is kept as late and is not judged. Your last on-time upload stays in the compo."
-            : "It is the upload that counts now. Its check run is queued; the entry page shows the result.",
+            : row.upload.lateException
+              ? `It arrived after the deadline, within the late exception the organizer granted this entry (${row.entry.lateReason ?? "no reason given"}), so it counts. The jury sees the exception. Its check run is queued.`
+              : "It is the upload that counts now. Its check run is queued; the entry page shows the result.",
           lines.join("\n\n"),
           { text: "Open the entry", href: `${env().APP_URL}/entries/${row.entry.id}` },
-          "Keep this mail: the SHA-256 sums prove which files you submitted and when.",
+          row.upload.repositoryCommit
+            ? "Keep this mail: the commit hash and the SHA-256 sums prove what you submitted and when."
+            : "Keep this mail: the SHA-256 sums prove which files you submitted and when.",
         ],
         `upload-receipt:${uploadId}:${m.id}`,
       ),
     );
   }
+}
+
+/** Bundle and layout, or layout alone when the sources come from a repository link. */
+function requiredKinds(fromRepository: boolean): readonly FileKind[] {
+  return fromRepository ? REQUIRED_KINDS.filter((k) => k !== "bundle") : REQUIRED_KINDS;
+}
+
+/** What the receipt lists: the repository and commit (when the sources come from one), the licence, every file. */
+function receiptLines(u: typeof uploads.$inferSelect, files: FileRow[]): string[] {
+  const lines: string[] = [];
+  if (u.repositoryUrl && u.repositoryCommit) {
+    lines.push(`Sources from a repository (fetched by the check run at exactly this commit)\n  ${u.repositoryUrl}\n  commit ${u.repositoryCommit}`);
+  }
+  if (u.licence) lines.push(`Licence\n  ${u.licence}`);
+  for (const f of FILE_KINDS.flatMap((k) => files.filter((x) => x.kind === k))) {
+    lines.push(`${KIND_LABELS[f.kind]}\n  ${f.filename}\n  ${f.sizeBytes} bytes (${formatBytes(f.sizeBytes ?? 0)})\n  SHA-256 ${f.sha256}`);
+  }
+  return lines;
 }
 
 async function abortFile(f: FileRow): Promise<void> {

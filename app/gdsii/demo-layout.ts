@@ -37,6 +37,10 @@ export interface DemoLayoutOptions {
   /** One routing path per placed cell, to make files heavier (benchmarks). */
   wiresPerCell?: number;
   libName?: string;
+  /** The design's top-level ports, labelled at the die edge (default: the ruleset's pin list). */
+  ports?: { name: string; width: number; direction?: string }[];
+  /** Name of the top cell (default: the ruleset's top module). */
+  topCell?: string;
   break?: DemoLayoutBreaks;
 }
 
@@ -102,7 +106,7 @@ export function generateDemoLayout(opts: DemoLayoutOptions = {}): DemoLayout {
     flipFlops = budget !== null ? budget + Math.max(1, Math.ceil(budget * 0.1)) : Math.max(1, flipFlops * 4);
   }
   const random = mulberry32(opts.seed ?? 1);
-  const top = ruleset.topModule;
+  const top = opts.topCell ?? ruleset.topModule;
   const topElements: GdsElement[] = [];
   const cellCounts: Record<string, number> = {};
   const bump = (name: string, n = 1) => (cellCounts[name] = (cellCounts[name] ?? 0) + n);
@@ -171,7 +175,7 @@ export function generateDemoLayout(opts: DemoLayoutOptions = {}): DemoLayout {
     topElements.push(rect(WIRE_LAYER, 0, dieW - 2000, dieH / 2, dieW + 5000, dieH / 2 + 1000));
   }
 
-  const labels = pinLabels(ruleset, broken.missingPin);
+  const labels = pinLabels(opts.ports ?? ruleset.pins, broken.missingPin);
   const pinLayer = ruleset.pinLayer.layer;
   const pinType = ruleset.pinLayer.datatype ?? 0;
   const spacing = dieW / (labels.length + 1);
@@ -203,10 +207,10 @@ export function generateDemoLayout(opts: DemoLayoutOptions = {}): DemoLayout {
 }
 
 /** One label per bit: `name` for a 1-bit pin, `name[i]` for each bit of a bus. */
-function pinLabels(ruleset: Ruleset, missing: string | true | undefined): string[] {
-  const skip = missing === true ? (ruleset.pins.find((p) => p.direction === "output") ?? ruleset.pins[0]).name : missing;
+function pinLabels(ports: NonNullable<DemoLayoutOptions["ports"]>, missing: string | true | undefined): string[] {
+  const skip = missing === true ? (ports.find((p) => p.direction === "output") ?? ports[0])?.name : missing;
   const out: string[] = [];
-  for (const p of ruleset.pins) {
+  for (const p of ports) {
     if (p.name === skip) continue;
     if (p.width === 1) out.push(p.name);
     else for (let i = 0; i < p.width; i++) out.push(`${p.name}[${i}]`);

@@ -41,6 +41,8 @@ export interface LayoutFigures {
   pinsLabelled: string[];
   pinsMissing: string[];
   pinsOffEdge: string[];
+  /** Distinct texts of the labels on the pin layer (held against the source's ports). */
+  pinLayerLabels: string[];
   forbiddenCells: Record<string, number>;
 }
 
@@ -69,12 +71,15 @@ export function checkLayout(summary: LayoutSummary, ruleset: Ruleset): { finding
   if (summary.topCell !== ruleset.topModule) {
     add({
       rule: "layout.top.name",
-      verdict: "warn",
-      title: "The top cell is named after the top module",
+      verdict: "fail",
+      title: "The top cell is the ruleset's top module",
       measured: summary.topCell,
       limit: ruleset.topModule,
-      advice: `Name the layout's top cell ${ruleset.topModule}, like the Verilog top module.`,
+      evidence: `the layout's top cell is ${summary.topCell}; the ruleset's top module is ${ruleset.topModule}`,
+      advice: `Name the layout's top cell ${ruleset.topModule}, like the Verilog top module, and export that cell.`,
     });
+  } else {
+    add({ rule: "layout.top.name", verdict: "pass", title: "The top cell is the ruleset's top module", measured: summary.topCell, limit: ruleset.topModule });
   }
 
   // Die and shape.
@@ -253,6 +258,7 @@ export function checkLayout(summary: LayoutSummary, ruleset: Ruleset): { finding
       pinsLabelled,
       pinsMissing,
       pinsOffEdge,
+      pinLayerLabels: [...byText.keys()].sort(),
       forbiddenCells,
     },
   };

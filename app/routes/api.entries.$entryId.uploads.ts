@@ -10,7 +10,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   // who may upload is settled before the body is read
   if (!(await entryForUploader(params.entryId, user.id))) apiNotFound("That entry");
   const body = await parseJsonBody(request, startUploadSchema);
-  const out = await startUpload(params.entryId, user.id, body.files);
+  const out = await startUpload(params.entryId, user.id, body.files, new Date(), { repository: body.repository, licence: body.licence });
   if (!out.ok) return refusalResponse(out);
   return okJson({ uploadId: out.uploadId, files: out.files }, 201);
 }

@@ -108,6 +108,24 @@ export default function CompetitionRules({ loaderData }: Route.ComponentProps) {
         </a>
       </div>
 
+      <section className="card mt-6" aria-labelledby="start-h" data-testid="starter-downloads">
+        <h2 id="start-h" className="mb-2 text-xl font-bold">
+          Start from something that passes
+        </h2>
+        <p className="text-sm text-ink-soft">
+          The starter bundle is written from these rules: a minimal design with this compo's top module <code className="font-mono">{r.topModule}</code>, its pins and its
+          video timing, a self-checking testbench, and the one-line local check in its README. The ruleset is the same rules as JSON, every default filled in.
+        </p>
+        <div className="mt-3 flex flex-wrap gap-3">
+          <a href={`${base}/starter.zip`} className="btn-primary" download>
+            Starter bundle (.zip)
+          </a>
+          <a href={`${base}/ruleset.json`} className="btn-quiet" download>
+            Ruleset (JSON, version {c.rulesetVersion})
+          </a>
+        </div>
+      </section>
+
       <div className="mt-6 grid gap-4 md:grid-cols-3">
         <section className="card" aria-labelledby="deadline-h">
           <h2 id="deadline-h" className="kicker">
@@ -279,6 +297,26 @@ export default function CompetitionRules({ loaderData }: Route.ComponentProps) {
           <div>
             <dt className="text-mute">Flash check</dt>
             <dd className="font-semibold">{r.flashCheck.enabled ? (r.flashCheck.action === "block" ? "on; flashing entries fail" : "on; flashing entries carry a warning") : "off"}</dd>
+          </div>
+          <div>
+            <dt className="text-mute">Layout against source</dt>
+            <dd className="font-semibold">flip-flops within {r.layoutMatch.flipFlopTolerancePct} % of synthesis; pin labels = top-level ports; top cell {r.topModule}</dd>
+          </div>
+          <div>
+            <dt className="text-mute">Layout file</dt>
+            <dd className="font-semibold">.gds, or .gds.gz held to the same size once inflated</dd>
+          </div>
+          <div>
+            <dt className="text-mute">Sources by repository link</dt>
+            <dd className="font-semibold">
+              {r.repository.allowed
+                ? `yes: one commit, ${r.repository.submodules ? "with" : "without"} submodules, at most ${mib(r.repository.transferBytes)} in ${r.repository.fetchSeconds} s`
+                : "no; bundle files only"}
+            </dd>
+          </div>
+          <div>
+            <dt className="text-mute">Licence (SPDX)</dt>
+            <dd className="font-semibold">{r.licence.required ? (r.licence.openOnly ? "required, OSI-approved only" : "required") : r.licence.openOnly ? "optional; OSI-approved only" : "optional"}</dd>
           </div>
           <div>
             <dt className="text-mute">Ruleset version</dt>

@@ -1,5 +1,4 @@
 import { data, Form, Link, redirect, useRevalidator } from "react-router";
-import { z } from "zod";
 import { requireUser } from "~/auth/guards.server";
 import type { RequestContext } from "~/auth/guards.server";
 import { CheckRunPanel } from "~/components/conformance/CheckRunPanel";
@@ -12,6 +11,9 @@ import { latestCheckFor } from "~/conformance/report.server";
 import { cutoffOf } from "~/entries/deadline";
 import { limitFor } from "~/entries/parts";
 import { entryForViewer, rulesetOf, uploadsOfEntry } from "~/entries/service.server";
+import { entryPageExtras, grantFromForm, parseEntryIntent, pickFinal, revokeFromForm } from "~/entries/entry-page.server";
+import { LateExceptionCard } from "~/components/LateExceptionCard";
+import { UploadCompare } from "~/components/UploadCompare";
 import { FILE_KINDS, type FileKind } from "~/entries/sniff";
 import { paymentsOfEntry, startCheckout } from "~/payments/service.server";
 import { formatMoney } from "~/payments/states";
@@ -31,7 +33,8 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const { entry, competition, event, crew, viewer } = await load(request, context, params.entryId);
   const ruleset = rulesetOf(competition.ruleset);
   const cutoff = cutoffOf(competition.deadlineAt, competition.graceMinutes);
-  const open = competition.state === "open" && entry.state === "active" && (!cutoff || cutoff > new Date());
+  const extras = await entryPageExtras(entry, competition, ruleset, new URL(request.url));
+  const open = extras.acceptsUploads;
   const check = await latestCheckFor(entry.id);
   const feeNotice = new URL(request.url).searchParams.get("fee");
   return {
@@ -49,16 +52,24 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     feeNotice: feeNotice === "returned" || feeNotice === "cancelled" ? feeNotice : null,
     report: check,
     videoMode: ruleset.videoMode,
+    ...extras,
   };
 }
 
-const actionSchema = z.object({ intent: z.literal("pay") });
-
 export async function action({ request, params, context }: Route.ActionArgs) {
-  const { user, viewer, entry } = await load(request, context, params.entryId);
-  if (viewer.role !== "crew") throw data({ message: "Only the crew can pay its entry fee." }, { status: 403 });
-  const parsed = actionSchema.safeParse(Object.fromEntries(await readForm(request)));
-  if (!parsed.success) throw data({ message: "Unknown action." }, { status: 400 });
+  const { user, viewer, entry, event } = await load(request, context, params.entryId);
+  const intent = parseEntryIntent(await readForm(request));
+  if (!intent) throw data({ message: "Unknown action." }, { status: 400 });
+  if (intent.intent === "grant-late" || intent.intent === "revoke-late") {
+    if (viewer.role !== "organizer") throw data({ message: "Only the organizer grants late exceptions." }, { status: 403 });
+    const out = intent.intent === "grant-late" ? await grantFromForm(entry.id, user.id, event.timeZone, intent.until, intent.reason) : await revokeFromForm(entry.id, user.id);
+    return out.ok ? { notice: out.notice } : { error: out.error, field: out.field };
+  }
+  if (viewer.role !== "crew") throw data({ message: "Only the crew can do that." }, { status: 403 });
+  if (intent.intent === "final") {
+    const out = await pickFinal(entry.id, user.id, intent.upload);
+    return out.ok ? { notice: out.notice } : { error: out.error };
+  }
   const out = await startCheckout(entry.id, user);
   if (!out.ok) return { error: out.message };
   return redirect(out.url);
@@ -90,6 +101,16 @@ export default function EntryDashboard({ loaderData, actionData }: Route.Compone
       </p>
 
 
+      {actionData && "notice" in actionData && actionData.notice && (
+        <p role="status" className="mb-4 rounded-md bg-pass-soft px-3 py-2 text-sm font-medium text-pass">{actionData.notice}</p>
+      )}
+      {actionData && "error" in actionData && actionData.error && (
+        <p role="alert" className="mb-4 rounded-md bg-fail-soft px-3 py-2 text-sm font-medium text-fail">{actionData.error}</p>
+      )}
+      {(d.lateException || !crewView) && (
+        <LateExceptionCard exception={d.lateException} organizer={!crewView} timeZone={d.event.timeZone} cutoffIso={d.cutoff} />
+      )}
+
       <div className="mb-6 grid gap-4 md:grid-cols-3">
         <div className="card">
           <p className="kicker">Entry</p>
@@ -109,7 +130,6 @@ export default function EntryDashboard({ loaderData, actionData }: Route.Compone
             <p role="status" className="mt-2 text-sm text-ink-soft">Thanks — the payment is being confirmed. This page shows it once the payment service reports it.</p>
           )}
           {d.feeNotice === "cancelled" && d.entry.feeState !== "paid" && <p role="status" className="mt-2 text-sm text-ink-soft">The payment was cancelled; nothing was charged.</p>}
-          {actionData?.error && <p role="alert" className="field-error">{actionData.error}</p>}
           {crewView && (d.entry.feeState === "unpaid" || d.entry.feeState === "pending") && (
             <Form method="post" className="mt-3">
               <input type="hidden" name="intent" value="pay" />
@@ -128,16 +148,18 @@ export default function EntryDashboard({ loaderData, actionData }: Route.Compone
       <div className="grid gap-6 lg:grid-cols-[1fr_1fr]">
         <section aria-label="Upload">
           {crewView && d.open ? (
-            <UploadPanel entryId={d.entry.id} limits={d.limits} onRecorded={() => void revalidator.revalidate()} />
+            <UploadPanel entryId={d.entry.id} limits={d.limits} options={d.panel} onRecorded={() => void revalidator.revalidate()} />
           ) : (
             <div className="card text-ink-soft">{crewView ? "Uploads are closed for this entry." : "Organizers see the uploads; only the crew uploads."}</div>
           )}
         </section>
         <section>
           <h2 className="mb-3 text-lg font-bold">Uploads</h2>
-          <UploadList uploads={d.uploads} timeZone={d.event.timeZone} />
+          <UploadList uploads={d.uploads} timeZone={d.event.timeZone} canChoose={crewView && d.canChoose} />
         </section>
       </div>
+
+      {d.uploads.length >= 2 && <UploadCompare uploads={d.uploads.map((u) => u.number)} comparison={d.comparison} />}
 
       <div className="mt-8">
         <CheckRunPanel check={live.check} offline={live.offline} videoMode={d.videoMode} />

@@ -5,6 +5,8 @@ import { requireUser } from "~/auth/guards.server";
 import type { RequestContext } from "~/auth/guards.server";
 import { ScoringEntryMedia } from "~/components/ScoringEntryMedia";
 import { latestCheckFor } from "~/conformance/report.server";
+import { LateExceptionNotice } from "~/components/LateExceptionCard";
+import { lateNoteForJury } from "~/entries/late-exception.server";
 import { competitionForJudge } from "~/judging/access.server";
 import { conflictReasonSchema } from "~/judging/forms";
 import { entryForJudge } from "~/judging/grid.server";
@@ -34,8 +36,9 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const a = check?.artifacts ?? {};
   const pick = (k: string) => (a[k] ? { url: a[k].url, mediaType: a[k].mediaType } : null);
   return {
-    competition: { id: c.id, title: c.title },
+    competition: { id: c.id, title: c.title, timeZone: c.timeZone },
     entry,
+    late: await lateNoteForJury(entry.id),
     check: check?.run
       ? {
           state: check.run.state,
@@ -69,7 +72,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 const VERDICT: Record<string, string> = { pass: "bg-pass-soft text-pass", warn: "bg-warn-soft text-warn", fail: "bg-fail-soft text-fail" };
 
 export default function JudgeEntry({ loaderData }: Route.ComponentProps) {
-  const { competition: c, entry, check, flash, stats, media } = loaderData;
+  const { competition: c, entry, check, flash, stats, media, late } = loaderData;
   const lastResult = useActionData<typeof action>();
   const [form, fields] = useForm({ lastResult, shouldValidate: "onBlur", onValidate: ({ formData }) => parseWithZod(formData, { schema: conflictReasonSchema }) });
   return (
@@ -96,6 +99,12 @@ export default function JudgeEntry({ loaderData }: Route.ComponentProps) {
       <h1 className="mt-1 text-display font-extrabold">{entry.title}</h1>
       <p className="mt-1 text-ink-soft">{entry.crew ? `by ${entry.crew}` : "Crew hidden: judging is blind until the results are out."}</p>
       {entry.description && <p className="mt-4 max-w-3xl whitespace-pre-line">{entry.description}</p>}
+      {late && (
+        <div className="card mt-4 border-violet" data-testid="jury-late-note">
+          {late.exception && <LateExceptionNotice exception={late.exception} timeZone={c.timeZone} />}
+          {late.judgedUploadLate && <p className="mt-1 text-sm">The upload you judge arrived after the deadline, under the organizer's late exception for this entry.</p>}
+        </div>
+      )}
 
       <div className="mt-6 grid gap-6 lg:grid-cols-[2fr_1fr]">
         <section aria-labelledby="capture-h" className="space-y-4">

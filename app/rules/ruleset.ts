@@ -89,6 +89,15 @@ const simulationSchema = z.object({
   memoryMb: z.number().int().min(256).max(16384).default(2048),
 });
 
+const repositorySchema = z.object({
+  allowed: z.boolean().default(true),
+  /** Fetch the commit's submodules too (each by its own link, checked like the entry's). */
+  submodules: z.boolean().default(false),
+  /** Bytes the repository host may send for one fetch, submodules included. */
+  transferBytes: z.number().int().positive().default(16 * 1024 * 1024),
+  fetchSeconds: z.number().int().min(5).max(600).default(60),
+});
+
 const rulesetObject = z.object({
   version: z.literal(RULESET_VERSION).default(RULESET_VERSION),
   topModule: z.string().regex(/^[A-Za-z_][A-Za-z0-9_$]*$/, "a Verilog module name"),
@@ -118,9 +127,21 @@ const rulesetObject = z.object({
       edgeToleranceUm: z.number().min(0).default(DEFAULT_PIN_LAYER.edgeToleranceUm),
     })
     .default(DEFAULT_PIN_LAYER),
-  flipFlopPattern: z.string().default("(?:^|_)(?:df|dff|sdff|edff)"),
+  // A flip-flop is a name token that is `df` with an optional scan (s) / enable (e) prefix and only flip-flop
+  // suffix letters after it (f, b, r, s, t, x, p, n, q, digits): gc_dffr_2, gc_sdfrtp_1, gc_edfxtp, gc_dfbbn —
+  // not my_dfault. Gatecrash's own naming rule, written for invented cell libraries.
+  flipFlopPattern: z.string().default("(?:^|_)(?:s|e|se)?df[fbrstxpnq0-9]*(?:_|$)"),
   flipFlopBudget: z.number().int().positive().nullable().default(null),
-  forbiddenCellPatterns: z.array(z.string()).default(["sram", "ram\\d", "rom\\d", "macro_mem"]),
+  // Memory macros as whole name tokens (gc_sram_64x8, gc_ram16x4, gc_dpram_32x8, gc_rom8_256), never inside a word (program1).
+  forbiddenCellPatterns: z
+    .array(z.string())
+    .default(["(?:^|_)(?:s|b|dp|sp)?ram(?:\\d|_|$)", "(?:^|_)rom(?:\\d|_|$)", "(?:^|_)macro_mem"]),
+  /** Layout against source: flip-flop cells in the layout may differ from synthesis by this share (fan-out duplicates). */
+  layoutMatch: z.object({ flipFlopTolerancePct: z.number().min(0).max(100).default(5) }).default({ flipFlopTolerancePct: 5 }),
+  /** The entry's licence (an SPDX expression): whether one must be given, and whether only OSI-approved ones count. */
+  licence: z.object({ required: z.boolean().default(false), openOnly: z.boolean().default(false) }).default({ required: false, openOnly: false }),
+  /** Sources by repository link and commit instead of a bundle file. */
+  repository: repositorySchema.default(repositorySchema.parse({})),
   uploadLimits: uploadLimitsSchema.default(uploadLimitsSchema.parse({})),
   simulation: simulationSchema.default(simulationSchema.parse({})),
   flashCheck: z

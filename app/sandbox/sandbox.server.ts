@@ -6,6 +6,13 @@ import { join } from "node:path";
  * Runs a hardware tool on untrusted input, as EDA.md prescribes: an unprivileged user, no network,
  * its own mount namespace with only the build folder writable (bubblewrap), prlimit on CPU time,
  * address space, file size and process count, and a wall-clock kill of the whole process group.
+ *
+ * The network stays unshared for every run, the repository fetch included: its sandbox has only its own
+ * loopback. The fetch's one way out is a Unix socket in the build folder, where the worker's single-destination
+ * proxy (app/sources/fetch-proxy.server.ts) listens and connects only to the one host:port of the entry's link,
+ * at addresses it resolved and checked itself, counting the bytes. A relay inside the sandbox (socat) turns
+ * git's proxy connection into that socket. So a fetch can reach exactly one repository host and nothing on the
+ * worker's network (the database, the store, other hosts), and git sees no credentials, config or /etc.
  */
 export interface SandboxLimits {
   cpuSeconds: number;
@@ -32,8 +39,11 @@ export interface SandboxRequest {
   limits?: Partial<SandboxLimits>;
   /** Cap on captured stdout/stderr, each; the rest is dropped and `truncated` set. */
   maxOutputBytes?: number;
-  /** Host folders of Gatecrash's own (never an upload's) shown read-only inside, e.g. a precompiled header. */
-  readOnly?: { host: string; inside: string }[];
+  /**
+   * Host folders of Gatecrash's own (never an upload's) shown read-only inside, e.g. a precompiled header, or the CA
+   * certificates for the repository fetch; an `optional` one is skipped when the host has no such folder.
+   */
+  readOnly?: { host: string; inside: string; optional?: boolean }[];
 }
 
 export interface SandboxResult {
@@ -73,7 +83,7 @@ export function sandboxArgv(req: SandboxRequest): string[] {
     "--dev", "/dev",
     "--tmpfs", "/tmp",
     "--bind", req.buildDir, "/build",
-    ...(req.readOnly ?? []).flatMap((m) => ["--ro-bind", m.host, m.inside]),
+    ...(req.readOnly ?? []).flatMap((m) => [m.optional ? "--ro-bind-try" : "--ro-bind", m.host, m.inside]),
     "--unshare-all",
     "--die-with-parent",
     "--new-session",

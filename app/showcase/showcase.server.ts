@@ -1,7 +1,8 @@
 import { createHash } from "node:crypto";
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { artifacts, checkRuns, competitions, crews, entries, events, uploadFiles, uploads } from "~/db/schema";
+import { countingUploads } from "~/entries/counting.server";
+import { artifacts, checkRuns, competitions, crews, entries, events, uploadFiles } from "~/db/schema";
 import { flashSummary, publicStats, type FlashSummary, type PublicStats } from "./figures";
 import { isId } from "~/security/ids";
 
@@ -135,13 +136,8 @@ export async function eligibleEntries(competitionId: string): Promise<EligibleEn
     .innerJoin(crews, eq(crews.id, entries.crewId))
     .where(and(eq(entries.competitionId, competitionId), eq(entries.state, "active")));
   if (rows.length === 0) return [];
-  const ups = await db()
-    .select({ id: uploads.id, entryId: uploads.entryId, number: uploads.number })
-    .from(uploads)
-    .where(and(inArray(uploads.entryId, rows.map((r) => r.id)), eq(uploads.state, "complete")))
-    .orderBy(desc(uploads.number));
-  const counting = new Map<string, { id: string; number: number }>();
-  for (const u of ups) if (!counting.has(u.entryId)) counting.set(u.entryId, { id: u.id, number: u.number });
+  // the crew's final pick, else the newest counting upload
+  const counting = await countingUploads(rows.map((r) => r.id));
   return rows
     .filter((r) => counting.has(r.id))
     .map((r) => ({ ...r, uploadId: counting.get(r.id)!.id, uploadNumber: counting.get(r.id)!.number }))

@@ -8,6 +8,9 @@ export const RUNTIME_PACKAGES: Record<string, string> = {
   verilator: "/usr/bin/verilator",
   ffmpeg: "/usr/bin/ffmpeg",
   bubblewrap: "/usr/bin/bwrap",
+  // the repository fetch: git inside the sandbox, socat as its relay to the worker's one-host proxy
+  git: "/usr/bin/git",
+  socat: "/usr/bin/socat",
 };
 export const TEST_PACKAGES: Record<string, string> = {
   klayout: "/usr/bin/klayout",

@@ -63,3 +63,13 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   await page.screenshot({ path, fullPage: true });
   return path;
 }
+
+/** Polls `check` until it holds, with a deadline (e2e tests never sleep a fixed time). */
+export async function pollUntil(page: Page, check: () => Promise<boolean>, what: string, timeoutMs = 30_000, everyMs = 250): Promise<void> {
+  const until = Date.now() + timeoutMs;
+  while (Date.now() < until) {
+    if (await check()) return;
+    await page.waitForTimeout(everyMs);
+  }
+  throw new Error(`timed out waiting for ${what}`);
+}

@@ -4,7 +4,6 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { eq } from "drizzle-orm";
 import { PNG } from "pngjs";
-import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { ZipFile } from "yazl";
 import { DEMO_RULESET } from "~/rules/ruleset";
@@ -13,7 +12,7 @@ import { competitions, entries, eventRoles, events, uploadFiles, uploads } from 
 import { writeLayout } from "~/gdsii/writer";
 import { waitForMail } from "../support/mail";
 import { makeUser, sessionCookie, unique } from "../support/users";
-import { contextWithCookie, screenshot, useBrowser } from "./browser";
+import { contextWithCookie, pollUntil, screenshot, useBrowser } from "./browser";
 
 const browser = useBrowser();
 
@@ -43,15 +42,6 @@ async function makeFiles(dir: string) {
   const still = join(dir, "still.png");
   writeFileSync(still, PNG.sync.write(png));
   return { bundle, layout, video, still };
-}
-
-async function pollUntil(page: Page, check: () => Promise<boolean>, what: string, timeoutMs = 30_000) {
-  const until = Date.now() + timeoutMs;
-  while (Date.now() < until) {
-    if (await check()) return;
-    await page.waitForTimeout(250);
-  }
-  throw new Error(`timed out waiting for ${what}`);
 }
 
 describe("an entrant in the browser", () => {

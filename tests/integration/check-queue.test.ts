@@ -120,6 +120,34 @@ describe("the check queue", () => {
     expect((await runState(calmRun.runId)).state).toBe("queued");
   }, 120_000);
 
+  it("checks an upload the crew picks as final after its queued check was dropped for a newer one", async () => {
+    await emptyQueue();
+    const event = await mod.users.makeEvent();
+    const e = await entry(event.id);
+    const first = await upload(e.id, 1);
+    const second = await upload(e.id, 2);
+    const boss = await mod.jobs.queue();
+    const [job] = await boss.fetch<{ checkRunId: string }>(mod.jobs.QUEUES.checkRun);
+    expect(await mod.run.executeCheckRun(job.data.checkRunId, { simulate: false })).toBe("done");
+    await boss.complete(mod.jobs.QUEUES.checkRun, job.id);
+    expect((await runState(first.runId)).state).toBe("superseded");
+    expect((await runState(second.runId)).state).toBe("done");
+
+    // the crew makes #1 the judged upload: it gets a check of its own, which the queue's one job runs
+    const crew = await mod.db.db().select({ userId: mod.schema.crewMembers.userId }).from(mod.schema.crewMembers).innerJoin(mod.schema.entries, eq(mod.schema.entries.crewId, mod.schema.crewMembers.crewId)).where(eq(mod.schema.entries.id, e.id));
+    const { chooseFinalUpload } = await import("~/entries/final-choice.server");
+    expect((await chooseFinalUpload(e.id, crew[0].userId, 1)).ok).toBe(true);
+    const [again] = await boss.fetch<{ checkRunId: string }>(mod.jobs.QUEUES.checkRun);
+    expect(again).toBeDefined();
+    expect(await mod.run.executeCheckRun(again.data.checkRunId, { simulate: false })).toBe("done");
+    await boss.complete(mod.jobs.QUEUES.checkRun, again.id);
+    const report = await mod.report.latestCheckFor(e.id);
+    expect(report?.uploadNumber).toBe(1);
+    expect(report?.run?.state).toBe("done");
+    // the newer upload's finished check is kept, not superseded by the pick
+    expect((await runState(second.runId)).state).toBe("done");
+  }, 120_000);
+
   it("puts a run Gatecrash failed behind every first attempt, and gives up after three attempts", async () => {
     await emptyQueue();
     const event = await mod.users.makeEvent();

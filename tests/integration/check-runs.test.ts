@@ -4,14 +4,13 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { zipOf } from "../support/archives";
 import { closeDb, db } from "~/db/client.server";
 import { artifacts, checkRuns, findings } from "~/db/schema";
-import { DEMO_RULESET } from "~/rules/ruleset";
 import { executeCheckRun } from "~/conformance/run.server";
 import { queueCheckRun } from "~/conformance/queue.server";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
 import { stopQueue } from "~/jobs/queue.server";
 import * as artifactRoute from "~/routes/artifacts.$artifactId";
 import * as checksApi from "~/routes/api.checks.$entryId";
 import { designPath } from "../../demo/designs/index";
+import { demoEntryLayout } from "../../demo/designs/layouts";
 import { makeCompetitionWithEntry, makeCompleteUpload } from "../support/entries";
 import { callRoute, routeArgs } from "../support/routes";
 import { makeEvent, makeUser, request, sessionCookie } from "../support/users";
@@ -25,7 +24,8 @@ async function prepare() {
   const stranger = await makeUser();
   const made = await makeCompetitionWithEntry({ eventId: event.id, captainId: captain.id, state: "open" });
   const bundle = await zipOf({ "xor.v": readFileSync(designPath("xor-tide")) });
-  const layout = generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 30, logicCells: 200, seed: 3 }).bytes;
+  // the layout of this design: its 58 flip-flops and its ports, so the layout-against-source findings pass
+  const layout = demoEntryLayout("xor-tide").bytes;
   const upload = await makeCompleteUpload(made.entry.id, 1, [
     { kind: "bundle", bytes: bundle, filename: "xor.zip", mediaType: "application/zip" },
     { kind: "layout", bytes: layout, filename: "xor.gds", mediaType: "application/vnd.gdsii" },
@@ -94,7 +94,7 @@ describe("a check run in the worker", () => {
   it("shows the source and layout findings and then the first still through the API while the run goes on", async () => {
     const upload = await makeCompleteUpload(setup.entry.id, 2, [
       { kind: "bundle", bytes: await zipOf({ "copper.v": readFileSync(designPath("copper-sine")) }), filename: "copper.zip", mediaType: "application/zip" },
-      { kind: "layout", bytes: generateDemoLayout({ ruleset: DEMO_RULESET, shape: "wide", flipFlops: 120, logicCells: 500, seed: 9 }).bytes, filename: "copper.gds", mediaType: "application/vnd.gdsii" },
+      { kind: "layout", bytes: demoEntryLayout("copper-sine").bytes, filename: "copper.gds", mediaType: "application/vnd.gdsii" },
     ]);
     const runId = await queueCheckRun(upload.id);
     const cookie = await sessionCookie(setup.captain);

@@ -15,6 +15,7 @@ import * as fileApi from "~/routes/api.uploads.$uploadId.files.$fileId";
 import * as filesApi from "~/routes/api.uploads.$uploadId.files";
 import { makeUser, request, sessionCookie } from "../support/users";
 import { callApi, makeEntrySetup } from "./entries-support";
+import { complete, confirm, sendParts, start, type Planned } from "./upload-api";
 import { wallTimeInstant } from "../support/time";
 
 
@@ -27,55 +28,6 @@ afterAll(async () => {
 const GDS = Buffer.from([0x00, 0x06, 0x00, 0x02, 0x02, 0x58, 0x00, 0x1c, 0x01, 0x02]);
 const ZIP = Buffer.concat([Buffer.from([0x50, 0x4b, 0x03, 0x04]), Buffer.from("not really deflated but the head is a zip")]);
 const PNG = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13]);
-
-interface Planned {
-  id: string;
-  kind: string;
-  partSize: number;
-  partCount: number;
-}
-
-async function start(s: Awaited<ReturnType<typeof makeEntrySetup>>, files: { kind: string; filename: string; size: number }[]) {
-  return callApi<{ uploadId: string; files: Planned[]; error?: { code: string; message: string; fieldErrors?: Record<string, string[]> } }>(
-    startApi.action,
-    request(`/api/entries/${s.entry.id}/uploads`, { cookie: s.cookie, json: { files } }),
-    { entryId: s.entry.id },
-  );
-}
-
-/** Sends parts through presigned URLs exactly as the browser does (plain PUTs to S3). */
-async function sendParts(cookie: string, uploadId: string, f: Planned, bytes: Buffer, only?: number[]) {
-  const numbers = only ?? Array.from({ length: f.partCount }, (_, i) => i + 1);
-  const signed = await callApi<{ urls: Record<string, string> }>(
-    fileApi.action,
-    request(`/api/uploads/${uploadId}/files/${f.id}`, { cookie, json: { action: "sign", partNumbers: numbers } }),
-    { uploadId, fileId: f.id },
-  );
-  expect(signed.status).toBe(200);
-  for (const n of numbers) {
-    const body = bytes.subarray((n - 1) * f.partSize, n * f.partSize);
-    const res = await fetch(signed.body.urls[n], { method: "PUT", body: new Uint8Array(body) });
-    expect(res.status).toBe(200);
-    const noted = await callApi(fileApi.action, request("/x", { cookie, json: { action: "part", partNumber: n, etag: res.headers.get("etag"), size: body.length } }), { uploadId, fileId: f.id });
-    expect(noted.status).toBe(200);
-  }
-}
-
-async function confirm(cookie: string, uploadId: string, f: Planned) {
-  return callApi<{ file: { sha256: string; sizeBytes: number; mediaType: string }; error: { code: string; message: string } }>(
-    fileApi.action,
-    request(`/api/uploads/${uploadId}/files/${f.id}`, { cookie, json: { action: "confirm" } }),
-    { uploadId, fileId: f.id },
-  );
-}
-
-async function complete(cookie: string, uploadId: string) {
-  return callApi<{ number: number; state: string; message: string; error: { code: string; message: string } }>(
-    uploadApi.action,
-    request(`/api/uploads/${uploadId}`, { cookie, json: { action: "complete" } }),
-    { uploadId },
-  );
-}
 
 /** A whole upload of bundle + layout through the API. */
 async function uploadPair(s: Awaited<ReturnType<typeof makeEntrySetup>>, bundle = ZIP, layout = GDS) {
@@ -182,7 +134,7 @@ describe("a complete upload", () => {
     await sendParts(s.cookie, st.body.uploadId, layout, PNG);
     const refused = await confirm(s.cookie, st.body.uploadId, layout);
     expect(refused.status).toBe(422);
-    expect(refused.body.error.message).toBe('"shot.gds" is not a GDSII stream: it is a PNG picture. Choose the right file for "Layout (GDSII)".');
+    expect(refused.body.error.message).toBe('"shot.gds" is not a GDSII stream or a gzip file: it is a PNG picture. Choose the right file for "Layout (GDSII), .gds or .gds.gz".');
     const notYet = await complete(s.cookie, st.body.uploadId);
     expect(notYet.status).toBe(409);
     // The bundle is kept; the entrant replaces only the refused layout, and the upload completes.
@@ -302,8 +254,10 @@ describe("broken and resumed uploads", () => {
     expect(sign.status).toBe(409);
     const discarded = await complete(s.cookie, first.body.uploadId);
     expect(discarded.body.error.code).toBe("upload_discarded");
-    // The sweep: the second one, seen a day later.
-    const swept = await sweepStaleUploads(60_000, new Date(Date.now() + 86400_000));
+    // The sweep: the second one, left untouched for two days. Only uploads older than a day are swept, so
+    // the other test files' uploads in flight in the same database are left alone.
+    await db().update(uploads).set({ createdAt: new Date(Date.now() - 2 * 86400_000) }).where(and(eq(uploads.entryId, s.entry.id), eq(uploads.state, "pending")));
+    const swept = await sweepStaleUploads(86400_000);
     expect(swept).toBeGreaterThanOrEqual(1);
     const states = (await db().select().from(uploads).where(eq(uploads.entryId, s.entry.id))).map((u) => u.state);
     expect(states).toEqual(["abandoned", "abandoned"]);

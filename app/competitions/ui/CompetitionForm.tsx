@@ -41,6 +41,8 @@ export function CompetitionForm({
   const limits = rs.uploadLimits.getFieldset();
   const sim = rs.simulation.getFieldset();
   const flash = rs.flashCheck.getFieldset();
+  const licence = rs.licence.getFieldset();
+  const repo = rs.repository.getFieldset();
   const pins = rs.pins.getFieldList();
   const criteria = fields.criteria.getFieldList();
 
@@ -206,10 +208,23 @@ export function CompetitionForm({
           <Input field={pinLayer.datatype} label="Pin label datatype" type="number" hint="Empty: any datatype." />
           <Input field={pinLayer.edgeToleranceUm} label="Pin edge tolerance (µm)" type="number" step="any" />
           <Input field={rs.flipFlopBudget} label="Flip-flop budget" type="number" hint="Empty: no limit." />
+          <Input field={rs.flipFlopTolerancePct} label="Layout flip-flops vs synthesis (± %)" type="number" step="any" hint="Fan-out duplicates; the flow adds none." />
         </div>
         <div className="grid gap-x-4 sm:grid-cols-2">
           <Input field={rs.flipFlopPattern} label="Flip-flop cell pattern (regular expression)" />
           <TextArea field={rs.forbiddenCellPatterns} label="Forbidden cell patterns (one regular expression a line)" rows={4} />
+        </div>
+      </section>
+
+      <section className="card" aria-labelledby="submit-h">
+        <h2 id="submit-h" className="mb-4 text-lg font-bold">Ruleset: what crews submit</h2>
+        <div className="grid gap-x-4 sm:grid-cols-2">
+          <Check field={repo.allowed} label="Sources may come as a repository link and commit" hint="Fetched by the check run: one commit, shallow, in the sandbox." />
+          <Check field={repo.submodules} label="Fetch the commit's submodules too" />
+          <Input field={repo.transferMiB} label="Repository fetch: most data (MiB)" type="number" step="any" />
+          <Input field={repo.fetchSeconds} label="Repository fetch: time limit (s)" type="number" />
+          <Check field={licence.required} label="A licence (SPDX identifier) is required" />
+          <Check field={licence.openOnly} label="Only open source licences (OSI-approved)" />
         </div>
       </section>
 
