@@ -214,8 +214,9 @@ describe("comparing two uploads", () => {
     const s = await makeEntrySetup();
     const other = Buffer.from(demoEntryLayout("munch-squares").bytes);
     const a = await uploadVia(s, {}, [{ kind: "bundle", filename: "t.zip", bytes: await zipOf({ "tide.v": readFileSync(designPath("xor-tide")) }) }, layoutFile]);
-    const b = await uploadVia(s, {}, [{ kind: "bundle", filename: "t.zip", bytes: await zipOf({ "tide.v": readFileSync(designPath("xor-tide")) }) }, { kind: "layout", filename: "other.gds", bytes: other }]);
+    // The first run goes before the second upload: a newer upload supersedes a run still waiting.
     await runCheckOf(a.started.body.uploadId);
+    const b = await uploadVia(s, {}, [{ kind: "bundle", filename: "t.zip", bytes: await zipOf({ "tide.v": readFileSync(designPath("xor-tide")) }) }, { kind: "layout", filename: "other.gds", bytes: other }]);
     await runCheckOf(b.started.body.uploadId);
     const page = await callRoute<{ comparison: UploadComparison | null }>(entryPage.loader, request(`/entries/${s.entry.id}?a=1&b=2`, { cookie: s.cookie }), { entryId: s.entry.id });
     const c = page.data!.comparison!;
