@@ -58,8 +58,10 @@ describe("a crew that submits by repository link", () => {
     expect(receipt.text).toContain(git.url("scanline/beam.git"));
 
     // The worker fetches exactly that commit (through the sandbox's one-host proxy) and checks it with its layout.
-    const fetched = page.locator('[data-rule="intake.repository"][data-verdict="pass"]');
-    await pollUntil(page, async () => (await fetched.count()) > 0, "the check run's repository finding", 240_000, 500);
+    // The report grows step by step (the repository finding comes first), so wait for the finished run before reading it.
+    const finished = page.locator('[data-testid="check-run-panel"][data-state="done"]');
+    await pollUntil(page, async () => (await finished.count()) > 0, "the finished check run", 240_000, 500);
+    expect(await page.locator('[data-rule="intake.repository"][data-verdict="pass"]').count()).toBe(1);
     expect(await page.locator('[data-rule="layout.matches.flipflops"][data-verdict="pass"]').count()).toBe(1);
     expect(git.requests.some((r) => r.includes("scanline/beam.git") && r.includes("git-upload-pack"))).toBe(true);
     await screenshot(page, "repository-upload-checked");
