@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { patternProblem, PIN_ROLES, RULESET_VERSION, rulesetSchema, SHAPE_NAME, type Ruleset, type RulesetInput, type TileShape } from "~/rules/ruleset";
+import { windowProblem } from "~/rules/monitor";
 import { VIDEO_MODES } from "~/rules/video-modes";
 import { isValidTimeZone, utcToZonedWallTime, zonedWallTimeToUtc } from "./timezone";
 
@@ -85,8 +86,19 @@ export const rulesetFormSchema = z.object({
   topModule: z.string({ error: "Name the top module." }).trim().regex(/^[A-Za-z_][A-Za-z0-9_$]*$/, "A Verilog module name."),
   pins: z.array(pinRowSchema, { error: "List at least one pin." }).min(1, "List at least one pin."),
   resetActive: z.enum(["low", "high"]),
-  clock: z.object({ frequencyHz: positive(2_000_000_000), tolerancePct: z.number({ error: "A number." }).min(0, "At least 0.").max(10, "At most 10.") }),
+  clock: z.object({
+    frequencyHz: positive(2_000_000_000),
+    tolerancePct: z.number({ error: "A number." }).min(0, "At least 0.").max(10, "At most 10."),
+    clocksPerPixel: int(1, 8, "Clocks"),
+  }),
   videoMode: z.string().refine((m) => m in VIDEO_MODES, "Pick a known video mode."),
+  // blank = the video mode's own window
+  monitor: z.object({
+    lineMinKHz: positive(1000).optional(),
+    lineMaxKHz: positive(1000).optional(),
+    refreshMinHz: positive(1000).optional(),
+    refreshMaxHz: positive(1000).optional(),
+  }),
   colourBitsPerChannel: int(1, 8, "Bits"),
   tile: z.object({
     widthUm: positive(100_000),
@@ -161,6 +173,13 @@ export function splitLines(s: string): string[] {
     .filter(Boolean);
 }
 
+/** The four window fields: all blank = the mode's window; all given = the organizer's own. */
+function monitorFromForm(m: RulesetForm["monitor"]): RulesetInput["monitor"] {
+  const { lineMinKHz, lineMaxKHz, refreshMinHz, refreshMaxHz } = m;
+  if (lineMinKHz == null || lineMaxKHz == null || refreshMinHz == null || refreshMaxHz == null) return null;
+  return { lineRateKHz: { min: lineMinKHz, max: lineMaxKHz }, refreshHz: { min: refreshMinHz, max: refreshMaxHz } };
+}
+
 export function rulesetFromForm(f: RulesetForm): RulesetInput {
   return {
     version: RULESET_VERSION,
@@ -169,6 +188,7 @@ export function rulesetFromForm(f: RulesetForm): RulesetInput {
     resetActive: f.resetActive,
     clock: f.clock,
     videoMode: f.videoMode,
+    monitor: monitorFromForm(f.monitor),
     colourBitsPerChannel: f.colourBitsPerChannel,
     tile: { widthUm: f.tile.widthUm, heightUm: f.tile.heightUm, maxTiles: f.tile.maxTiles, allowedShapes: parseShapes(f.tile.shapes) ?? [] },
     pinLayer: { layer: f.pinLayer.layer, datatype: f.pinLayer.datatype ?? null, edgeToleranceUm: f.pinLayer.edgeToleranceUm },
@@ -202,8 +222,11 @@ export function rulesetToForm(r: Ruleset) {
     topModule: r.topModule,
     pins: r.pins.map((p) => ({ ...p, width: String(p.width) })),
     resetActive: r.resetActive,
-    clock: { frequencyHz: String(r.clock.frequencyHz), tolerancePct: String(r.clock.tolerancePct) },
+    clock: { frequencyHz: String(r.clock.frequencyHz), tolerancePct: String(r.clock.tolerancePct), clocksPerPixel: String(r.clock.clocksPerPixel) },
     videoMode: r.videoMode,
+    monitor: r.monitor
+      ? { lineMinKHz: String(r.monitor.lineRateKHz.min), lineMaxKHz: String(r.monitor.lineRateKHz.max), refreshMinHz: String(r.monitor.refreshHz.min), refreshMaxHz: String(r.monitor.refreshHz.max) }
+      : { lineMinKHz: "", lineMaxKHz: "", refreshMinHz: "", refreshMaxHz: "" },
     colourBitsPerChannel: String(r.colourBitsPerChannel),
     tile: { widthUm: String(r.tile.widthUm), heightUm: String(r.tile.heightUm), maxTiles: String(r.tile.maxTiles), shapes: shapesText(r.tile.allowedShapes) },
     pinLayer: { layer: String(r.pinLayer.layer), datatype: r.pinLayer.datatype == null ? "" : String(r.pinLayer.datatype), edgeToleranceUm: String(r.pinLayer.edgeToleranceUm) },
@@ -291,6 +314,13 @@ export function competitionFormSchema(timeZone: string) {
       // so one mistake is never reported twice); its paths are mapped back to the form's field names.
       if (!rulesetFormSchema.safeParse(v.ruleset).success) return;
       const r = rulesetSchema.safeParse(rulesetFromForm(v.ruleset));
+      if (r.success) {
+        const problem = windowProblem(r.data);
+        if (problem) ctx.addIssue({ code: "custom", path: ["ruleset", "clock", "frequencyHz"], message: `No design could pass: ${problem}. Change the clock, the clocks per pixel, the mode or the monitor window.` });
+      }
+      const m = v.ruleset.monitor;
+      const given = [m.lineMinKHz, m.lineMaxKHz, m.refreshMinHz, m.refreshMaxHz].filter((x) => x != null).length;
+      if (given > 0 && given < 4) ctx.addIssue({ code: "custom", path: ["ruleset", "monitor", "lineMinKHz"], message: "Give all four limits of the monitor window, or leave all four blank for the mode's usual window." });
       if (!r.success)
         for (const issue of r.error.issues) {
           const path = issue.path.map((p) => (typeof p === "symbol" ? String(p) : p));

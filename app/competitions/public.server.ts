@@ -3,7 +3,7 @@ import { getSession, isAdmin, type RequestContext } from "~/auth/guards.server";
 import { db } from "~/db/client.server";
 import { competitions, eventRoles, events } from "~/db/schema";
 import { compoSlots, slotsCalendar, type TimetableCompo } from "~/party/timetable";
-import { closeIfDue, criteriaOf, storedRuleset } from "./service.server";
+import { closeIfDue, criteriaOf, storedRuleset, storedSignal } from "./service.server";
 
 /**
  * The public face of a competition: everything past draft is public; a draft is shown only to its organizers
@@ -34,6 +34,7 @@ export async function publicCompetition(context: RequestContext, eventSlug: stri
 }
 
 /** The compo's deadline, vote window and show as an iCalendar file (the same slots as the party timetable). */
-export function competitionCalendar(c: TimetableCompo, e: { title: string; slug: string; venue: string; timeZone: string }, pageUrl: string, now: Date): string {
-  return slotsCalendar({ name: `${c.title} — ${e.title}`, party: e, compos: [c], slots: compoSlots(c), pageUrl: () => pageUrl, now });
+export function competitionCalendar(c: TimetableCompo & Pick<typeof competitions.$inferSelect, "ruleset">, e: { title: string; slug: string; venue: string; timeZone: string }, pageUrl: string, now: Date): string {
+  const compo = { ...c, signal: storedSignal(c) };
+  return slotsCalendar({ name: `${c.title} — ${e.title}`, party: e, compos: [compo], slots: compoSlots(compo), pageUrl: () => pageUrl, now });
 }

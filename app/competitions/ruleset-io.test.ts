@@ -40,7 +40,7 @@ describe("ruleset through the form", () => {
   it("comes back unchanged when saved without edits, even with byte limits that are not whole MiB", async () => {
     const { rulesetFromForm, rulesetToForm, rulesetFormSchema } = await import("./forms");
     const { rulesetSchema } = await import("~/rules/ruleset");
-    const odd = rulesetSchema.parse({ ...DEMO_RULESET, uploadLimits: { ...DEMO_RULESET.uploadLimits, bundleBytes: 1_000_000, layoutBytes: 12_345_678 }, pinLayer: { layer: 5, datatype: 20, edgeToleranceUm: 0.5 } });
+    const odd = rulesetSchema.parse({ ...DEMO_RULESET, uploadLimits: { ...DEMO_RULESET.uploadLimits, bundleBytes: 1_000_000, layoutBytes: 12_345_678 }, pinLayer: { layer: 5, datatype: 20, edgeToleranceUm: 0.5 }, clock: { frequencyHz: 50_000_000, tolerancePct: 0.1, clocksPerPixel: 2 }, monitor: { lineRateKHz: { min: 31.1, max: 31.6 }, refreshHz: { min: 59.2, max: 60.5 } } });
     const asForm = rulesetToForm(odd);
     // The browser sends strings; Conform coerces them to numbers as the schema says — here by hand.
     const coerced = JSON.parse(JSON.stringify(asForm), (_k, v) => (typeof v === "string" && v !== "" && !Number.isNaN(Number(v)) ? Number(v) : v === "" ? undefined : v));
@@ -55,5 +55,15 @@ describe("ruleset through the form", () => {
     coerced.pins = asForm.pins.map((p) => ({ ...p, width: Number(p.width) }));
     const parsed = rulesetFormSchema.parse(coerced);
     expect(rulesetSchema.parse(rulesetFromForm(parsed))).toEqual(odd);
+    // all four window fields blank: the mode's own window
+    expect(rulesetFromForm({ ...parsed, monitor: {} }).monitor).toBeNull();
+  });
+});
+
+describe("a ruleset no design could pass", () => {
+  it("is refused on import with the clock named: a 50 MHz board at one clock a pixel draws 62.5 kHz lines", () => {
+    const r = parseRulesetJson(JSON.stringify({ ...DEMO_RULESET, clock: { frequencyHz: 50_000_000 } }));
+    expect(!r.ok && r.issues).toEqual([{ path: "clock", message: expect.stringMatching(/62\.500 kHz, outside the monitor's 31–32 kHz/) }]);
+    expect(parseRulesetJson(JSON.stringify({ ...DEMO_RULESET, clock: { frequencyHz: 50_000_000, clocksPerPixel: 2 } })).ok).toBe(true);
   });
 });

@@ -1,3 +1,4 @@
+import { windowProblem } from "~/rules/monitor";
 import { patternProblem, rulesetSchema, type Ruleset } from "~/rules/ruleset";
 import { VIDEO_MODES } from "~/rules/video-modes";
 
@@ -18,6 +19,10 @@ export function validateRuleset(input: unknown): ParsedRuleset {
       if (problem) issues.push({ path: `forbiddenCellPatterns.${i}`, message: `"${p}" does not compile: ${problem}` });
     });
     if (!(r.videoMode in VIDEO_MODES)) issues.push({ path: "videoMode", message: `unknown video mode; known: ${Object.keys(VIDEO_MODES).join(", ")}` });
+    else {
+      const problem = windowProblem(r);
+      if (problem) issues.push({ path: "clock", message: `no design could pass: ${problem}` });
+    }
     const names = r.pins.map((p) => p.name);
     names.forEach((n, i) => {
       if (names.indexOf(n) !== i) issues.push({ path: `pins.${i}.name`, message: `the pin name "${n}" appears twice` });

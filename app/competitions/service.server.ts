@@ -1,6 +1,8 @@
 import { and, asc, count, eq, inArray, lte, ne, notInArray } from "drizzle-orm";
 import { audit } from "~/audit/log.server";
 import { DEMO_RULESET, rulesetSchema, type Ruleset } from "~/rules/ruleset";
+import { signalSummary } from "~/rules/monitor";
+import { VIDEO_MODES } from "~/rules/video-modes";
 import { db } from "~/db/client.server";
 import { competitions, criteria, entries, eventRoles, events } from "~/db/schema";
 import { slugify, type CompetitionValues, type EventForm } from "./forms";
@@ -72,6 +74,12 @@ export function storedRuleset(c: Pick<CompetitionRow, "ruleset">): { ruleset: Ru
   if (c.ruleset == null) return { ruleset: DEMO_RULESET, valid: false };
   const r = rulesetSchema.safeParse(c.ruleset);
   return r.success ? { ruleset: r.data, valid: true } : { ruleset: DEMO_RULESET, valid: false };
+}
+
+/** The stored ruleset's board clock and monitor window in one line, or undefined when the ruleset is not valid. */
+export function storedSignal(c: Pick<CompetitionRow, "ruleset">): string | undefined {
+  const { ruleset, valid } = storedRuleset(c);
+  return valid && ruleset.videoMode in VIDEO_MODES ? signalSummary(ruleset) : undefined;
 }
 
 async function slugTaken(eventId: string, slug: string, exceptId?: string): Promise<boolean> {

@@ -2,6 +2,7 @@ import { and, asc, eq, ne } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { competitions, events } from "~/db/schema";
 import { publicAwards } from "~/results/awards.server";
+import { storedSignal } from "~/competitions/service.server";
 import { timetable, type TimetableCompo } from "./timetable";
 
 /** The public face of a party: its compos past draft and their timetable. null when there is no such party or nothing public yet. */
@@ -27,6 +28,7 @@ export async function publicParty(eventSlug: string | undefined) {
     votingClosesAt: c.votingClosesAt,
     showStartsAt: c.showStartsAt,
     showMinutes: c.showMinutes,
+    signal: storedSignal(c),
   }));
   return { event: e, compos, slots: timetable(compos), awards: await publicAwards(e.id) };
 }

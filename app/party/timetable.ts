@@ -14,6 +14,8 @@ export interface TimetableCompo {
   votingClosesAt: Date | null;
   showStartsAt: Date | null;
   showMinutes: number;
+  /** The board clock and monitor window in one line (signalSummary), for the deadline's description. */
+  signal?: string;
 }
 
 export type SlotKind = "deadline" | "vote" | "show";
@@ -59,7 +61,7 @@ export interface CalendarParty {
 function slotDescription(s: TimetableSlot, c: TimetableCompo | undefined, party: CalendarParty): string {
   const tz = `Times are in UTC; the party runs on ${party.timeZone}.`;
   if (s.kind === "deadline")
-    return `Uploads must be complete by this time${c?.graceMinutes ? ` (uploads finishing within ${c.graceMinutes} minutes after it still count)` : ""}. Party: ${party.title}. ${tz}`;
+    return `Uploads must be complete by this time${c?.graceMinutes ? ` (uploads finishing within ${c.graceMinutes} minutes after it still count)` : ""}.${c?.signal ? ` Design for: ${c.signal}.` : ""} Party: ${party.title}. ${tz}`;
   if (s.kind === "vote") return `One ballot per person and compo during this window. Party: ${party.title}. ${tz}`;
   return `The entries of ${s.competitionTitle} on the party's big screen. Party: ${party.title}. ${tz}`;
 }

@@ -1,5 +1,6 @@
 import { useEffect, useState } from "react";
 import { data, Link } from "react-router";
+import { acceptanceWindow, expectedRates } from "~/rules/monitor";
 import { VIDEO_MODES } from "~/rules/video-modes";
 import { formatFee } from "~/competitions/forms";
 import { uploadsStopAt } from "~/competitions/lifecycle";
@@ -36,6 +37,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     },
     ruleset,
     videoMode: VIDEO_MODES[ruleset.videoMode] ?? null,
+    monitor: ruleset.videoMode in VIDEO_MODES ? { window: acceptanceWindow(ruleset), rates: expectedRates(ruleset).nominal } : null,
     criteria: criteria.map((k) => ({ name: k.name, weight: k.weight, scaleMin: k.scaleMin, scaleMax: k.scaleMax })),
   };
 }
@@ -70,7 +72,7 @@ function When({ iso, tz }: { iso: string | null; tz: string }) {
 const mib = (b: number) => `${Math.round((b / 1024 / 1024) * 10) / 10} MiB`;
 
 export default function CompetitionRules({ loaderData }: Route.ComponentProps) {
-  const { event, competition: c, ruleset: r, videoMode: vm, criteria, preview } = loaderData;
+  const { event, competition: c, ruleset: r, videoMode: vm, monitor, criteria, preview } = loaderData;
   const base = `/e/${event.slug}/${c.slug}`;
   const colours = 2 ** (3 * r.colourBitsPerChannel);
   return (
@@ -245,9 +247,20 @@ export default function CompetitionRules({ loaderData }: Route.ComponentProps) {
           <h2 id="clock-h" className="mb-3 text-xl font-bold">
             Clock and audio
           </h2>
-          <p className="text-sm">
-            Clock <strong>{(r.clock.frequencyHz / 1e6).toFixed(3)} MHz</strong> ± {r.clock.tolerancePct}% — one pixel lasts about {(1e9 / r.clock.frequencyHz).toFixed(1)} ns.
+          <p className="text-sm" data-testid="board-clock">
+            Board clock <strong>{(r.clock.frequencyHz / 1e6).toFixed(3)} MHz</strong> ± {r.clock.tolerancePct}%,{" "}
+            <strong>{r.clock.clocksPerPixel} clock{r.clock.clocksPerPixel === 1 ? "" : "s"} per pixel</strong> — one pixel lasts about{" "}
+            {((1e9 * r.clock.clocksPerPixel) / r.clock.frequencyHz).toFixed(1)} ns{vm && r.clock.clocksPerPixel > 1 ? `, a line ${vm.h.total * r.clock.clocksPerPixel} clocks` : ""}.
           </p>
+          {monitor && vm && (
+            <p className="mt-2 text-sm" data-testid="monitor-window">
+              A design that follows the mode draws lines at {monitor.rates.lineRateKHz.toFixed(3)} kHz and frames at {monitor.rates.refreshHz.toFixed(3)} Hz on this
+              clock. The monitor window is <strong>{monitor.window.lineRateKHz.min}–{monitor.window.lineRateKHz.max} kHz</strong> and{" "}
+              <strong>{monitor.window.refreshHz.min}–{monitor.window.refreshHz.max} Hz</strong>
+              {monitor.window.source === "mode" ? " (the usual window for this mode: common practice, not a published standard)" : " (set by the organizers)"}; the
+              VESA DMT reference is {vm.dmt.lineRateKHz} kHz and {vm.dmt.refreshHz} Hz at {(vm.pixelClockHz / 1e6).toFixed(3)} MHz.
+            </p>
+          )}
           <p className="mt-2 text-sm">Audio is 1-bit PWM on the audio pin, filtered by an external RC network.</p>
           <p className="mt-2 rounded-md bg-warn-soft px-3 py-2 text-xs text-warn">
             A 1-bit PWM pin is a full-scale square wave with a DC offset: listen through a low-pass filter and a coupling capacitor, and start at low volume.

@@ -9,6 +9,7 @@ import { UploadList } from "~/components/UploadList";
 import { UploadPanel } from "~/components/UploadPanel";
 import { latestCheckFor } from "~/conformance/report.server";
 import { cutoffOf } from "~/entries/deadline";
+import { acceptanceWindow } from "~/rules/monitor";
 import { limitFor } from "~/entries/parts";
 import { entryForViewer, rulesetOf, uploadsOfEntry } from "~/entries/service.server";
 import { entryPageExtras, grantFromForm, parseEntryIntent, pickFinal, revokeFromForm } from "~/entries/entry-page.server";
@@ -51,7 +52,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     payments: (await paymentsOfEntry(entry.id)).map((p) => ({ ...p, createdAt: p.createdAt.toISOString(), amountText: formatMoney(p.amount, p.currency) })),
     feeNotice: feeNotice === "returned" || feeNotice === "cancelled" ? feeNotice : null,
     report: check,
-    videoMode: ruleset.videoMode,
+    timingRules: { modeId: ruleset.videoMode, clocksPerPixel: ruleset.clock.clocksPerPixel, window: acceptanceWindow(ruleset) },
     ...extras,
   };
 }
@@ -162,7 +163,7 @@ export default function EntryDashboard({ loaderData, actionData }: Route.Compone
       {d.uploads.length >= 2 && <UploadCompare uploads={d.uploads.map((u) => u.number)} comparison={d.comparison} />}
 
       <div className="mt-8">
-        <CheckRunPanel check={live.check} offline={live.offline} videoMode={d.videoMode} />
+        <CheckRunPanel check={live.check} offline={live.offline} timingRules={d.timingRules} />
       </div>
     </div>
   );

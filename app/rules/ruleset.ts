@@ -98,15 +98,30 @@ const repositorySchema = z.object({
   fetchSeconds: z.number().int().min(5).max(600).default(60),
 });
 
+const clockSchema = z.object({
+  frequencyHz: z.number().positive().default(25_175_000),
+  tolerancePct: z.number().min(0).max(10).default(0.5),
+  clocksPerPixel: z.number().int().min(1).max(8).default(1),
+});
+
+const rangeSchema = z
+  .object({ min: z.number().positive(), max: z.number().positive() })
+  .refine((r) => r.min <= r.max, { message: "the lowest value must not be above the highest", path: ["max"] });
+const acceptanceWindowSchema = z.object({ lineRateKHz: rangeSchema, refreshHz: rangeSchema });
+
 const rulesetObject = z.object({
   version: z.literal(RULESET_VERSION).default(RULESET_VERSION),
   topModule: z.string().regex(/^[A-Za-z_][A-Za-z0-9_$]*$/, "a Verilog module name"),
   pins: z.array(pinSchema).min(1),
   resetActive: z.enum(["low", "high"]).default("low"),
-  clock: z
-    .object({ frequencyHz: z.number().positive().default(25_175_000), tolerancePct: z.number().min(0).max(10).default(0.5) })
-    .default({ frequencyHz: 25_175_000, tolerancePct: 0.5 }),
+  /**
+   * The board's clock: its frequency, how far the oscillator may stray (the rates must stay in the monitor window
+   * at both ends), and how many clocks the design holds each pixel (2 for a 50 MHz board divided by two).
+   */
+  clock: clockSchema.default(clockSchema.parse({})),
   videoMode: z.string().default("vesa-dmt-640x480-60"),
+  /** What the party's monitor or projector locks to; null means the video mode's own window (video-modes.ts). */
+  monitor: acceptanceWindowSchema.nullable().default(null),
   colourBitsPerChannel: z.number().int().min(1).max(8).default(2),
   tile: z
     .object({

@@ -62,7 +62,11 @@ export type SimulationOutcome =
   | { ok: true; run: SimulationRun }
   | { ok: false; stage: SimulationFailureStage; reason: SimulationFailureReason; limitSeconds: number; log: string };
 
-const FRAME_BYTES = 640 * 480 * 3;
+/** Bytes of one captured RGB frame in the ruleset's video mode. */
+function frameBytes(ruleset: Ruleset): number {
+  const mode = videoMode(ruleset.videoMode);
+  return mode.h.active * mode.v.active * 3;
+}
 
 function safeRelative(path: string): string {
   const n = normalize(path);
@@ -148,7 +152,7 @@ export async function warmBuildTools(): Promise<void> {
 /** Whether a profile-guided build pays for a run of `frames` frames, given what a plain build of it costs. */
 export function profilePays(ruleset: Ruleset, frames: number, plainBuildMs: number): boolean {
   const mode = videoMode(ruleset.videoMode);
-  const runSeconds = (frames * mode.h.total * mode.v.total) / ASSUMED_CYCLES_PER_SECOND;
+  const runSeconds = (frames * mode.h.total * ruleset.clock.clocksPerPixel * mode.v.total) / ASSUMED_CYCLES_PER_SECOND;
   return runSeconds * 1000 >= PROFILE_PAYS_AFTER_BUILDS * plainBuildMs;
 }
 
@@ -236,7 +240,7 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
           const seconds = Math.min(20, left());
           const profiled = await runSandboxed({
             command: "/build/obj/Vtop", args: [String(PROFILE_FRAMES), "/build/profile"], buildDir,
-            limits: { wallSeconds: seconds, cpuSeconds: seconds, memoryBytes, fileSizeBytes: (PROFILE_FRAMES + 1) * FRAME_BYTES },
+            limits: { wallSeconds: seconds, cpuSeconds: seconds, memoryBytes, fileSizeBytes: (PROFILE_FRAMES + 1) * frameBytes(ruleset) },
             maxOutputBytes: 64 * 1024,
           });
           profileGuided = !classify(profiled);
@@ -261,7 +265,7 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
       wallSeconds: ruleset.simulation.runSeconds,
       cpuSeconds: ruleset.simulation.runSeconds,
       memoryBytes,
-      fileSizeBytes: Math.max(500_000_000, (frames + 1) * FRAME_BYTES),
+      fileSizeBytes: Math.max(500_000_000, (frames + 1) * frameBytes(ruleset)),
     },
     maxOutputBytes: 256 * 1024,
   });

@@ -99,7 +99,7 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
   const mode = videoMode(ruleset.videoMode);
   // frames are digested while the simulation runs (second core); the nominal frame rate is replaced by the
   // measured one once the run is over
-  const nominalFps = ruleset.clock.frequencyHz / (mode.h.total * mode.v.total);
+  const nominalFps = ruleset.clock.frequencyHz / (mode.h.total * ruleset.clock.clocksPerPixel * mode.v.total);
   let firstPng: Buffer | null = null;
   const digest = new FrameDigest(mode.h.active, mode.v.active, frames, ruleset.flashCheck.enabled ? nominalFps : null);
   const outcome = await simulateDesign({
@@ -156,7 +156,7 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
   capture.files.waveformSvg = join(outDir, "waveform.svg");
   writeFileSync(capture.files.waveformSvg, waveformSvg(pcm, AUDIO_SAMPLE_RATE));
 
-  const fps = ruleset.clock.frequencyHz / (summary.vsync.periodMax || mode.h.total * mode.v.total);
+  const fps = summary.vsync.periodMax ? ruleset.clock.frequencyHz / summary.vsync.periodMax : nominalFps;
   if (firstPng) {
     capture.files.firstFramePng = join(outDir, "first-frame.png");
     writeFileSync(capture.files.firstFramePng, firstPng);

@@ -62,6 +62,7 @@ export function generateHarness(ruleset: Ruleset): string {
   const blue = channelExpr(ruleset, "blue");
   const bits = ruleset.colourBitsPerChannel;
   const clockHz = Math.round(ruleset.clock.frequencyHz);
+  const cpp = ruleset.clock.clocksPerPixel;
   const otherInputs = ruleset.pins.filter((p) => p.direction !== "output" && p.role !== "clock" && p.role !== "reset");
   const resetAssert = reset ? `top->${reset.name} = ${ruleset.resetActive === "low" ? 0 : 1};` : "";
   const resetRelease = reset ? `top->${reset.name} = ${ruleset.resetActive === "low" ? 1 : 0};` : "";
@@ -81,7 +82,9 @@ export function generateHarness(ruleset: Ruleset): string {
 #include <ctime>
 #include <vector>
 
-static const uint64_t H_TOTAL = ${mode.h.total}, H_ACTIVE = ${mode.h.active}, H_LEAD = ${mode.h.sync + mode.h.backPorch};
+// a line in board clocks: each pixel lasts CPP clocks (the ruleset's clocks per pixel); the frame is in pixels
+static const uint64_t CPP = ${cpp};
+static const uint64_t H_TOTAL = ${mode.h.total * cpp}, H_ACTIVE = ${mode.h.active}, H_LEAD = ${(mode.h.sync + mode.h.backPorch) * cpp};
 static const uint64_t V_TOTAL = ${mode.v.total}, V_ACTIVE = ${mode.v.active}, V_LEAD = ${mode.v.sync + mode.v.backPorch};
 static const uint64_t FRAME_CLOCKS = H_TOTAL * V_TOTAL;
 static const uint64_t CLOCK_HZ = ${clockHz}ull, AUDIO_RATE = ${AUDIO_SAMPLE_RATE}ull;
@@ -216,8 +219,8 @@ ${otherInputs.map((p) => `  top->${p.name} = 0;`).join("\n")}
     if (capturing) {
       uint32_t r = (${red}), g = (${green}), b = (${blue});
       // hpos - H_LEAD wraps around below the active area, so one unsigned compare tests both ends
-      if (row && hpos - H_LEAD < H_ACTIVE) {
-        uint8_t* px = row + (hpos - H_LEAD) * 3;
+      if (row && hpos - H_LEAD < H_ACTIVE * CPP) {
+        uint8_t* px = row + ((hpos - H_LEAD) / CPP) * 3;
         px[0] = LEVEL[r]; px[1] = LEVEL[g]; px[2] = LEVEL[b];
       } else if (r | g | b) {
         if (blankCount == 0) { blankFrame = framesDone; blankLine = vline; blankHpos = hpos; blankColour = (r << 16) | (g << 8) | b; }

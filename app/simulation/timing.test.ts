@@ -41,7 +41,7 @@ function summary(over: Partial<{ hPeriod: number; hPulse: number; hActive: 0 | 1
   };
 }
 
-const failing = (s: HarnessSummary) => timingFindings(s, DEMO_RULESET, 4).filter((f) => f.verdict !== "pass").map((f) => f.rule);
+const failing = (s: HarnessSummary, ruleset = DEMO_RULESET) => timingFindings(s, ruleset, 4).filter((f) => f.verdict !== "pass").map((f) => f.rule);
 
 describe("timing findings", () => {
   it("passes standard timing on every rule, each with measured and standard value", () => {
@@ -49,7 +49,7 @@ describe("timing findings", () => {
     expect(findings.map((f) => f.rule).sort()).toEqual([
       "video.blanking.colour", "video.frame.lines", "video.frame.rate", "video.frames.rendered",
       "video.hsync.period", "video.hsync.polarity", "video.hsync.pulse",
-      "video.vsync.period", "video.vsync.polarity", "video.vsync.pulse",
+      "video.line.rate", "video.vsync.period", "video.vsync.polarity", "video.vsync.pulse",
     ]);
     expect(findings.every((f) => f.verdict === "pass" && f.step === "simulation" && f.limit != null)).toBe(true);
     expect(measureVideo(summary(), DEMO_RULESET)).toMatchObject({
@@ -63,10 +63,39 @@ describe("timing findings", () => {
     expect(failing(summary({ hActive: 1 }))).toEqual(["video.hsync.polarity"]);
     expect(failing(summary({ vPulse: 3 }))).toEqual(["video.vsync.pulse"]);
     expect(failing(summary({ blank: 12 }))).toEqual(["video.blanking.colour"]);
-    // a line of 810 clocks: the frame is 525 lines still, but 1.2 % slow
-    expect(failing(summary({ hPeriod: 810 }))).toEqual(["video.hsync.period", "video.frame.rate"]);
+    // a line of 810 clocks: the frame is 525 lines still, but lines come at 31.08 kHz and frames at 59.20 Hz, and
+    // at the slow end of the clock's 0.5 % both leave the 31–32 kHz / 59–61 Hz window
+    expect(failing(summary({ hPeriod: 810 }))).toEqual(["video.hsync.period", "video.line.rate", "video.frame.rate"]);
   });
   it("reports one fewer line as a wrong vsync period and line count, but a frame rate within 0.5 %", () => {
     expect(failing(summary({ vLines: 524 }))).toEqual(["video.vsync.period", "video.frame.lines"]);
+  });
+});
+
+describe("the compo's own clock", () => {
+  // Common practice, no source: boards in this trade clock 640×480 designs at 25 MHz, 0.7 % off the DMT pixel clock,
+  // and monitors lock to it (31.25 kHz lines, 59.52 Hz frames).
+  const at25 = { ...DEMO_RULESET, clock: { ...DEMO_RULESET.clock, frequencyHz: 25_000_000 } };
+  it("passes a correct 800×525 design clocked at 25 MHz", () => {
+    const findings = timingFindings(summary(), at25, 4);
+    expect(findings.filter((f) => f.verdict !== "pass").map((f) => f.rule)).toEqual([]);
+    const rate = findings.find((f) => f.rule === "video.frame.rate")!;
+    expect(rate.measured).toMatch(/^59\.524 Hz/); // 25e6 / (800 × 525)
+    expect(rate.limit).toBe("59–61 Hz");
+    expect(rate.evidence).toContain("common practice, no published source");
+    expect(findings.find((f) => f.rule === "video.line.rate")!.measured).toMatch(/^31\.250 kHz/); // 25e6 / 800
+  });
+  it("judges a 50 MHz board that holds each pixel two clocks in clocks: 1600 a line, 192 of hsync", () => {
+    const at50 = { ...DEMO_RULESET, clock: { ...DEMO_RULESET.clock, frequencyHz: 50_000_000, clocksPerPixel: 2 } };
+    expect(failing(summary({ hPeriod: 1600, hPulse: 192 }), at50)).toEqual([]);
+    // the same design without the divider: every line half as long, twice the rates
+    expect(failing(summary(), at50)).toEqual(["video.hsync.period", "video.hsync.pulse", "video.line.rate", "video.frame.rate"]);
+    const period = timingFindings(summary({ hPeriod: 1600, hPulse: 192 }), at50, 4).find((f) => f.rule === "video.hsync.period")!;
+    expect(period.limit).toBe("1600 clocks");
+  });
+  it("uses the organizer's own monitor window when the ruleset names one", () => {
+    const narrow = { ...at25, monitor: { lineRateKHz: { min: 31.3, max: 31.6 }, refreshHz: { min: 59.0, max: 61.0 } } };
+    expect(failing(summary(), narrow)).toEqual(["video.line.rate"]);
+    expect(timingFindings(summary(), narrow, 4).find((f) => f.rule === "video.line.rate")!.evidence).toContain("the organizer's monitor window");
   });
 });

@@ -1,6 +1,7 @@
 import type { Finding } from "~/rules/findings";
 import type { Ruleset } from "~/rules/ruleset";
-import { videoMode, type VideoMode } from "~/rules/video-modes";
+import { acceptanceWindow } from "~/rules/monitor";
+import { lineInClocks, videoMode, type VideoMode } from "~/rules/video-modes";
 import type { HarnessSummary, SyncMeasurement } from "./summary";
 
 /** Judges the harness's raw sync measurements against the ruleset's video mode. */
@@ -12,6 +13,8 @@ export interface VideoTiming {
   linesPerFrame: number | null;
   framesRendered: number;
   frameRateHz: number | null;
+  lineRateHz?: number | null;
+  clocksPerPixel?: number;
 }
 
 const STATUS_TEXT: Record<HarnessSummary["status"], string> = {
@@ -55,6 +58,8 @@ export function measureVideo(summary: HarnessSummary, ruleset: Ruleset): VideoTi
     linesPerFrame: summary.linesPerFrame.frames > 0 ? summary.linesPerFrame.max : null,
     framesRendered: summary.framesCaptured,
     frameRateHz: vOk ? ruleset.clock.frequencyHz / summary.vsync.periodMax : null,
+    lineRateHz: hPeriod ? ruleset.clock.frequencyHz / hPeriod : null,
+    clocksPerPixel: ruleset.clock.clocksPerPixel,
   };
 }
 
@@ -71,15 +76,17 @@ function exact(rule: string, title: string, min: number, max: number, standard: 
   };
 }
 
-function syncFindings(kind: "hsync" | "vsync", sync: SyncMeasurement, mode: VideoMode, hPeriod: number): Finding[] {
-  const std = kind === "hsync" ? mode.h : mode.v;
+function syncFindings(kind: "hsync" | "vsync", sync: SyncMeasurement, mode: VideoMode, clocksPerPixel: number, hPeriod: number): Finding[] {
+  // a line is judged in board clocks (each pixel lasts clocksPerPixel of them), a frame in lines
+  const std = kind === "hsync" ? lineInClocks(mode, clocksPerPixel) : mode.v;
   const scale = kind === "hsync" ? 1 : hPeriod;
   const unit = kind === "hsync" ? "clocks" : "lines";
+  const perPixel = kind === "hsync" && clocksPerPixel > 1 ? ` (${mode.h.total} pixels × ${clocksPerPixel} clocks)` : "";
   const out: Finding[] = [];
   if (sync.periods > 0) {
     out.push(exact(`video.${kind}.period`, `${kind} period`, sync.periodMin / scale, sync.periodMax / scale, std.total, unit, {
       evidence: `${sync.periods} periods measured between leading edges`,
-      advice: `one ${kind === "hsync" ? "line" : "frame"} must last exactly ${std.total} ${unit}`,
+      advice: `one ${kind === "hsync" ? "line" : "frame"} must last exactly ${std.total} ${unit}${perPixel}`,
     }));
   }
   if (sync.pulses > 0) {
@@ -103,6 +110,39 @@ function syncFindings(kind: "hsync" | "vsync", sync: SyncMeasurement, mode: Vide
   return out;
 }
 
+/**
+ * Line rate and refresh against the monitor acceptance window, at both ends of the clock's tolerance. Not against
+ * the DMT pixel clock: a 25 MHz board is 0.7 % off 25.175 MHz and every monitor locks to it (common practice).
+ */
+function rateFindings(summary: HarnessSummary, ruleset: Ruleset, mode: VideoMode): Finding[] {
+  const window = acceptanceWindow(ruleset);
+  const { frequencyHz, tolerancePct } = ruleset.clock;
+  const windowSource = window.source === "ruleset"
+    ? "the organizer's monitor window"
+    : "the usual window of monitors for this mode (common practice, no published source)";
+  const mhz = `${(frequencyHz / 1e6).toFixed(3)} MHz ± ${tolerancePct} %`;
+  const judge = (rule: string, title: string, periodClocks: number, range: { min: number; max: number }, unit: string, perUnit: number, dmt: number, what: string): Finding => {
+    const nominal = frequencyHz / periodClocks / perUnit;
+    const low = nominal * (1 - tolerancePct / 100), high = nominal * (1 + tolerancePct / 100);
+    const pass = low >= range.min && high <= range.max;
+    return {
+      step: "simulation", rule, verdict: pass ? "pass" : "fail", title,
+      measured: `${nominal.toFixed(3)} ${unit} (${low.toFixed(3)}–${high.toFixed(3)} across the clock's tolerance)`,
+      limit: `${range.min}–${range.max} ${unit}`,
+      evidence: `${periodClocks} clocks per ${what} at ${mhz}; limit from ${windowSource}; the VESA DMT reference is ${dmt} ${unit} at ${(mode.pixelClockHz / 1e6).toFixed(3)} MHz`,
+      advice: pass ? undefined : `at this clock a ${what} must last ${Math.ceil(frequencyHz * (1 + tolerancePct / 100) / range.max / perUnit)}–${Math.floor(frequencyHz * (1 - tolerancePct / 100) / range.min / perUnit)} clocks for the monitor to lock`,
+    };
+  };
+  const out: Finding[] = [];
+  if (summary.hsync.periods > 0) {
+    out.push(judge("video.line.rate", "line rate at the ruleset clock", summary.hsync.periodMax, window.lineRateKHz, "kHz", 1000, mode.dmt.lineRateKHz, "line"));
+  }
+  if (summary.vsync.periods > 0) {
+    out.push(judge("video.frame.rate", "frame rate at the ruleset clock", summary.vsync.periodMax, window.refreshHz, "Hz", 1, mode.dmt.refreshHz, "frame"));
+  }
+  return out;
+}
+
 export function timingFindings(summary: HarnessSummary, ruleset: Ruleset, framesRequested: number): Finding[] {
   const mode = videoMode(ruleset.videoMode);
   const findings: Finding[] = [];
@@ -115,8 +155,9 @@ export function timingFindings(summary: HarnessSummary, ruleset: Ruleset, frames
     });
     return findings;
   }
-  const hPeriod = summary.hsync.periodMax || mode.h.total;
-  findings.push(...syncFindings("hsync", summary.hsync, mode, hPeriod));
+  const cpp = ruleset.clock.clocksPerPixel;
+  const hPeriod = summary.hsync.periodMax || mode.h.total * cpp;
+  findings.push(...syncFindings("hsync", summary.hsync, mode, cpp, hPeriod));
 
   if (!hasEdges(summary.vsync)) {
     findings.push({
@@ -127,24 +168,14 @@ export function timingFindings(summary: HarnessSummary, ruleset: Ruleset, frames
     });
     return findings;
   }
-  findings.push(...syncFindings("vsync", summary.vsync, mode, hPeriod));
+  findings.push(...syncFindings("vsync", summary.vsync, mode, cpp, hPeriod));
 
   if (summary.linesPerFrame.frames > 0) {
     findings.push(exact("video.frame.lines", "lines per frame", summary.linesPerFrame.min, summary.linesPerFrame.max, mode.v.total, "lines", {
       evidence: `hsync pulses counted between vsync pulses over ${summary.linesPerFrame.frames} frames`,
     }));
   }
-  if (summary.vsync.periods > 0) {
-    const measured = ruleset.clock.frequencyHz / summary.vsync.periodMax;
-    const standard = mode.pixelClockHz / (mode.h.total * mode.v.total);
-    const offPct = (100 * Math.abs(measured - standard)) / standard;
-    findings.push({
-      step: "simulation", rule: "video.frame.rate", verdict: offPct <= ruleset.clock.tolerancePct ? "pass" : "fail",
-      title: "frame rate at the ruleset clock",
-      measured: `${measured.toFixed(3)} Hz`, limit: `${standard.toFixed(3)} Hz ± ${ruleset.clock.tolerancePct} %`,
-      evidence: `${summary.vsync.periodMax} clocks per frame at ${(ruleset.clock.frequencyHz / 1e6).toFixed(3)} MHz`,
-    });
-  }
+  findings.push(...rateFindings(summary, ruleset, mode));
   const b = summary.blanking;
   findings.push({
     step: "simulation", rule: "video.blanking.colour", verdict: b.colourClocks === 0 ? "pass" : "fail",

@@ -31,21 +31,25 @@ const OTHER = rulesetSchema.parse({
   ],
 });
 
+// A 50 MHz board whose design holds each pixel two clocks (common practice, no source: halving a 50 MHz oscillator).
+const HALVED = rulesetSchema.parse({ ...DEMO_RULESET, clock: { frequencyHz: 50_000_000, clocksPerPixel: 2 } });
+
 describe.each([
   ["the demo compo's ruleset", DEMO_RULESET],
   ["a ruleset with other names and an active-high reset", OTHER],
+  ["a 50 MHz board at two clocks a pixel", HALVED],
 ] as [string, Ruleset][])("the starter bundle for %s", (_name, ruleset) => {
   const files = starterFiles(ruleset, { compo: "Test Compo (Test Party)", rulesetJson: rulesetJson(ruleset), rulesVersion: 1 });
-  const folder = join(dir, ruleset.topModule);
+  const folder = join(dir, `${ruleset.topModule}-${ruleset.clock.clocksPerPixel}`);
   for (const f of files) {
     mkdirSync(dirname(join(folder, f.path)), { recursive: true });
     writeFileSync(join(folder, f.path), f.body);
   }
 
   it("passes Gatecrash's pipeline with that ruleset: no warning, no failure", async () => {
-    const zipPath = join(dir, `${ruleset.topModule}.zip`);
+    const zipPath = join(dir, `${ruleset.topModule}-${ruleset.clock.clocksPerPixel}.zip`);
     writeFileSync(zipPath, await starterZip("starter", files));
-    const result = await runPipeline({ ruleset, workDir: join(dir, `${ruleset.topModule}-run`), bundlePath: zipPath, simulate: true, encode: false });
+    const result = await runPipeline({ ruleset, workDir: join(dir, `${ruleset.topModule}-${ruleset.clock.clocksPerPixel}-run`), bundlePath: zipPath, simulate: true, encode: false });
     const notPass = result.findings.filter((f) => f.verdict !== "pass").map((f) => `${f.rule}: ${f.measured} ${f.evidence ?? ""}`);
     expect(notPass).toEqual([]);
     expect(result.findings.some((f) => f.rule.startsWith("video.") || f.rule.startsWith("simulation."))).toBe(true);

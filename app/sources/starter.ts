@@ -37,6 +37,10 @@ export function starterFiles(ruleset: Ruleset, about: { compo: string; rulesetJs
   // about 440 Hz from the ruleset's clock: the top bit of a free-running counter (a fact of the trade: f / 2^n)
   const toneBits = Math.max(4, Math.round(Math.log2(ruleset.clock.frequencyHz / 440)));
   const low = ruleset.resetActive === "low";
+  // a board clock faster than the pixel clock (50 MHz ÷ 2): x steps once every cpp clocks
+  const cpp = ruleset.clock.clocksPerPixel;
+  const pw = bitsFor(cpp);
+  const lineClocks = mode.h.total * cpp;
   const resetEdge = reset ? ` or ${low ? "negedge" : "posedge"} ${reset.name}` : "";
   const inReset = reset ? (low ? `!${reset.name}` : reset.name) : "1'b0";
 
@@ -74,7 +78,7 @@ export function starterFiles(ruleset: Ruleset, about: { compo: string; rulesetJs
     .map((p) => `  assign ${p.name} = ${p.direction === "inout" ? `{${p.width}{1'bz}}` : `${p.width}'d0`};`);
 
   const design = `// Starter design for ${about.compo}, written by Gatecrash from ruleset version ${about.rulesVersion}.
-// ${mode.label}: ${mode.h.total} clocks a line, ${mode.v.total} lines a frame; sync pulses ${mode.h.sync} clocks / ${mode.v.sync} lines.
+// ${mode.label}: ${mode.h.total} pixels a line${cpp > 1 ? ` of ${cpp} clocks each (${lineClocks} clocks)` : ""}, ${mode.v.total} lines a frame; sync pulses ${mode.h.sync} pixels / ${mode.v.sync} lines.
 // Every flip-flop is reset (silicon has no initial values). Make it yours: the picture comes from x, y and bar.
 module ${top} (
 ${ports.join(",\n")}
@@ -86,7 +90,8 @@ ${ports.join(",\n")}
   reg [${yw - 1}:0] y;
   reg [2:0] bar;
   reg [${toneBits - 1}:0] tone;
-  wire visible = (x < H_ACTIVE) && (y < V_ACTIVE);
+${cpp > 1 ? `  reg [${pw - 1}:0] pix; // clocks into the current pixel
+` : ""}  wire visible = (x < H_ACTIVE) && (y < V_ACTIVE);
   wire in_hsync = (x >= H_SYNC_START) && (x < H_SYNC_END);
   wire in_vsync = (y >= V_SYNC_START) && (y < V_SYNC_END);
 ${tiedOff.join("\n")}
@@ -97,10 +102,13 @@ ${tiedOff.join("\n")}
       y <= ${yw}'d0;
       bar <= 3'd0;
       tone <= ${toneBits}'d0;
-${resets.join("\n")}
+${cpp > 1 ? `      pix <= ${pw}'d0;
+` : ""}${resets.join("\n")}
     end else begin
       tone <= tone + 1'b1;
-      if (x == H_LAST) begin
+${cpp > 1 ? `      pix <= (pix == ${pw}'d${cpp - 1}) ? ${pw}'d0 : pix + 1'b1;
+      if (pix == ${pw}'d${cpp - 1}) begin
+` : ""}      if (x == H_LAST) begin
         x <= ${xw}'d0;
         bar <= 3'd0;
         y <= (y == V_LAST) ? ${yw}'d0 : y + 1'b1;
@@ -108,7 +116,7 @@ ${resets.join("\n")}
         x <= x + 1'b1;
         if (x[6:0] == 7'd127) bar <= bar + 1'b1;
       end
-${driven.join("\n")}
+${cpp > 1 ? "      end\n" : ""}${driven.join("\n")}
     end
   end
 endmodule
@@ -123,7 +131,7 @@ endmodule
   const hsActive = mode.h.syncPolarity === "negative" ? "0" : "1";
   const vsActive = mode.v.syncPolarity === "negative" ? "0" : "1";
   const testbench = `// Self-checking testbench for the starter design (Verilog-2005; runs in Icarus Verilog or any simulator).
-// It holds the sync timing against ${mode.label}: ${mode.h.total}-clock lines with ${mode.h.sync}-clock pulses,
+// It holds the sync timing against ${mode.label}: ${lineClocks}-clock lines with ${mode.h.sync * cpp}-clock pulses,
 // ${mode.v.total}-line frames with ${mode.v.sync}-line pulses, both of the ruleset's polarity.
 \`timescale 1ns/1ps
 module ${top}_check;
@@ -136,7 +144,7 @@ ${declarations}
     failures = 0; hs_edges = 0; vs_edges = 0; hs_width = 0; hs_first = -1; hs_last = -1; vs_first = -1; vs_last = -1;
 ${reset ? `    ${reset.name} = 1'b${low ? 0 : 1};\n    repeat (8) @(posedge ${clock.name});\n    ${reset.name} = 1'b${low ? 1 : 0};` : `    repeat (8) @(posedge ${clock.name});`}
     @(posedge ${clock.name}); #1 hs_was = ${hs?.name ?? "1'b0"}; vs_was = ${vs?.name ?? "1'b0"};
-    for (cycle = 0; cycle < ${mode.h.total * mode.v.total * 2 + mode.h.total * 4}; cycle = cycle + 1) begin
+    for (cycle = 0; cycle < ${lineClocks * mode.v.total * 2 + lineClocks * 4}; cycle = cycle + 1) begin
       @(posedge ${clock.name}); #1;
 ${hs ? `      if (${hs.name} == 1'b${hsActive} && hs_was != 1'b${hsActive}) begin hs_edges = hs_edges + 1; if (hs_first < 0) hs_first = cycle; hs_last = cycle; end
       if (hs_edges == 1 && ${hs.name} == 1'b${hsActive}) hs_width = hs_width + 1;
@@ -144,9 +152,9 @@ ${hs ? `      if (${hs.name} == 1'b${hsActive} && hs_was != 1'b${hsActive}) begi
 ${vs ? `      if (${vs.name} == 1'b${vsActive} && vs_was != 1'b${vsActive}) begin vs_edges = vs_edges + 1; if (vs_first < 0) vs_first = cycle; vs_last = cycle; end
       vs_was = ${vs.name};` : ""}
     end
-    if (hs_edges < 2 || (hs_last - hs_first) != (hs_edges - 1) * ${mode.h.total}) begin failures = failures + 1; $display("FAIL hsync: %0d pulses, not one every ${mode.h.total} clocks", hs_edges); end
-    if (hs_width != ${mode.h.sync}) begin failures = failures + 1; $display("FAIL hsync pulse: %0d clocks, want ${mode.h.sync}", hs_width); end
-    if (vs_edges < 2 || (vs_last - vs_first) != (vs_edges - 1) * ${mode.h.total * mode.v.total}) begin failures = failures + 1; $display("FAIL vsync: %0d pulses, not one every ${mode.v.total} lines", vs_edges); end
+    if (hs_edges < 2 || (hs_last - hs_first) != (hs_edges - 1) * ${lineClocks}) begin failures = failures + 1; $display("FAIL hsync: %0d pulses, not one every ${lineClocks} clocks", hs_edges); end
+    if (hs_width != ${mode.h.sync * cpp}) begin failures = failures + 1; $display("FAIL hsync pulse: %0d clocks, want ${mode.h.sync * cpp}", hs_width); end
+    if (vs_edges < 2 || (vs_last - vs_first) != (vs_edges - 1) * ${lineClocks * mode.v.total}) begin failures = failures + 1; $display("FAIL vsync: %0d pulses, not one every ${mode.v.total} lines", vs_edges); end
     if (failures == 0) $display("starter check: PASS (${mode.label} timing)");
     else $display("starter check: FAIL (%0d problems)", failures);
     $finish;

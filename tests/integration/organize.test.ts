@@ -365,6 +365,8 @@ describe("the calendar file", () => {
       expect(v).toMatch(/\r\nDTSTAMP:\d{8}T\d{6}Z\r\n/);
     }
     expect(unfolded).toContain("SUMMARY:Entry deadline: A compo with a rather long title\\, to make the summary line fold");
+    // the deadline says what to design for: the board clock, clocks per pixel and the monitor window (3.3.11 escapes)
+    expect(unfolded).toContain("Design for: board clock 25.175 MHz ± 0.5 %\\, 1 clock per pixel\\, 640×480 @ 60 Hz (VESA DMT)\\; monitor window 31–32 kHz\\, 59–61 Hz.");
   });
 });
 

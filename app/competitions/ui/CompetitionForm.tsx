@@ -36,6 +36,7 @@ export function CompetitionForm({
   });
   const rs = fields.ruleset.getFieldset();
   const clock = rs.clock.getFieldset();
+  const monitor = rs.monitor.getFieldset();
   const tile = rs.tile.getFieldset();
   const pinLayer = rs.pinLayer.getFieldset();
   const limits = rs.uploadLimits.getFieldset();
@@ -188,10 +189,24 @@ export function CompetitionForm({
       <section className="card" aria-labelledby="signal-h">
         <h2 id="signal-h" className="mb-4 text-lg font-bold">Ruleset: clock, video and audio</h2>
         <div className="grid gap-x-4 sm:grid-cols-3">
-          <Input field={clock.frequencyHz} label="Clock (Hz)" type="number" hint="25175000 = the VESA 640×480 pixel clock." />
-          <Input field={clock.tolerancePct} label="Clock tolerance (%)" type="number" step="0.01" />
+          <Input field={clock.frequencyHz} label="Board clock (Hz)" type="number" hint="The oscillator on the party's board: 25000000 is usual for 640×480; 25175000 is the VESA pixel clock." />
+          <Input field={clock.tolerancePct} label="Clock tolerance (%)" type="number" step="0.01" hint="The rates must stay in the monitor window at both ends." />
+          <Input field={clock.clocksPerPixel} label="Clocks per pixel" type="number" hint="1, or 2 for a 50 MHz board whose designs hold each pixel two clocks." />
           <Select field={rs.videoMode} label="Video mode" options={Object.values(VIDEO_MODES).map((m) => ({ value: m.id, label: m.label }))} />
           <Input field={rs.colourBitsPerChannel} label="Colour bits per channel" type="number" />
+          <fieldset className="sm:col-span-3">
+            <legend className="text-sm font-semibold">Monitor window</legend>
+            <p className="mb-2 text-sm text-mute">
+              What the party's monitor or projector locks to. Leave all four blank for the mode's usual window (for 640×480 @ 60 Hz: lines at 31.0–32.0 kHz,
+              frames at 59.0–61.0 Hz — common practice, not a published standard); try your own screen and enter its range if it is narrower.
+            </p>
+            <div className="grid gap-x-4 sm:grid-cols-4">
+              <Input field={monitor.lineMinKHz} label="Lines from (kHz)" type="number" step="0.001" />
+              <Input field={monitor.lineMaxKHz} label="Lines to (kHz)" type="number" step="0.001" />
+              <Input field={monitor.refreshMinHz} label="Frames from (Hz)" type="number" step="0.001" />
+              <Input field={monitor.refreshMaxHz} label="Frames to (Hz)" type="number" step="0.001" />
+            </div>
+          </fieldset>
           <Check field={flash.enabled} label="Run the flash check" hint="WCAG 2.2 SC 2.3.1 general and red flash thresholds." />
           <Select field={flash.action} label="When an entry flashes" options={[{ value: "warn", label: "warn (show a warning)" }, { value: "block", label: "block (fail the check)" }]} />
         </div>

@@ -3,7 +3,7 @@ import { flashSummary } from "~/showcase/figures";
 import { AudioCaution, PlayerGate } from "../PlayerGate";
 import { FindingsTable } from "./FindingsTable";
 import { LayoutViewer } from "./LayoutViewer";
-import { TimingTable, type SpeedFigures, type VideoFigures } from "./TimingTable";
+import { TimingTable, type SpeedFigures, type TimingRules, type VideoFigures } from "./TimingTable";
 import { CHECK_STEPS } from "./steps";
 import { VerdictBadge } from "./VerdictBadge";
 
@@ -26,7 +26,7 @@ function QueueLine({ queue }: { queue: { place: number; running: number } | null
  * appears as soon as the simulated design draws it), then the whole report. The page keeps `check` live
  * (useLiveCheck), so this panel and the page's header always show the same state.
  */
-export function CheckRunPanel({ check, offline, videoMode }: { check: EntryCheck | null; offline: boolean; videoMode: string }) {
+export function CheckRunPanel({ check, offline, timingRules }: { check: EntryCheck | null; offline: boolean; timingRules: TimingRules }) {
   if (!check) return <p className="text-mute">No upload yet: upload a source bundle and a layout to get a check report within seconds.</p>;
   const run = check.run;
   if (!run) return <p className="text-mute">Upload {check.uploadNumber} is waiting for its check run.</p>;
@@ -126,7 +126,7 @@ export function CheckRunPanel({ check, offline, videoMode }: { check: EntryCheck
           )}
         </div>
       )}
-      {fig.video && <TimingTable video={fig.video} speed={fig.speed ?? null} modeId={videoMode} />}
+      {fig.video && <TimingTable video={fig.video} speed={fig.speed ?? null} rules={timingRules} />}
       {a.wav && (
         <div>
           <h3 className="mb-2 font-bold">Audio from the PWM pin</h3>
