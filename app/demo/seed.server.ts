@@ -54,7 +54,8 @@ export async function seedDemo(db: Db, now = new Date()): Promise<{ seeded: bool
           showMinutes: key === "judging" ? 45 : 90,
           feeAmount: c.feeAmount,
           feeCurrency: c.feeCurrency,
-          ruleset: DEMO_RULESET,
+          // the open compo's party board runs at 25 MHz, as most boards in this trade do (common practice)
+          ruleset: key === "open" ? { ...DEMO_RULESET, clock: { ...DEMO_RULESET.clock, frequencyHz: 25_000_000 } } : DEMO_RULESET,
           rulesetVersion: DEMO_RULESET.version,
           ballotMethod: key === "judging" ? "schulze" : "points",
         })
