@@ -33,11 +33,14 @@ const OTHER = rulesetSchema.parse({
 
 // A 50 MHz board whose design holds each pixel two clocks (common practice, no source: halving a 50 MHz oscillator).
 const HALVED = rulesetSchema.parse({ ...DEMO_RULESET, clock: { frequencyHz: 50_000_000, clocksPerPixel: 2 } });
+// A 25 MHz board (common practice, no source): 0.7 % off the DMT pixel clock, inside the monitor window.
+const AT_25 = rulesetSchema.parse({ ...DEMO_RULESET, topModule: "board_25", clock: { frequencyHz: 25_000_000 } });
 
 describe.each([
   ["the demo compo's ruleset", DEMO_RULESET],
   ["a ruleset with other names and an active-high reset", OTHER],
   ["a 50 MHz board at two clocks a pixel", HALVED],
+  ["a 25 MHz board", AT_25],
 ] as [string, Ruleset][])("the starter bundle for %s", (_name, ruleset) => {
   const files = starterFiles(ruleset, { compo: "Test Compo (Test Party)", rulesetJson: rulesetJson(ruleset), rulesVersion: 1 });
   const folder = join(dir, `${ruleset.topModule}-${ruleset.clock.clocksPerPixel}`);
