@@ -72,6 +72,7 @@ export default [
   route("organize/:competitionId/audience/codes", "routes/organize.audience.codes.ts"),
   route("organize/:competitionId/audience/codes.csv", "routes/organize.audience.codes-csv.ts"),
   route("organize/:competitionId/results", "routes/organize.results.tsx"),
+  route("organize/:competitionId/stage", "routes/organize.$competitionId.stage.tsx"),
   route("stage/:competitionId", "routes/stage.tsx"),
   // end showcase block
   // the party around the compos: public page, timetable, party results; organizer codes, awards, archive (app/party, app/archive)

@@ -110,6 +110,7 @@ const TABLE: Record<string, Row> = {
   "organize/:competitionId/audience/codes": { loader: ORGANIZER },
   "organize/:competitionId/audience/codes.csv": { loader: ORGANIZER },
   "organize/:competitionId/results": { loader: ORGANIZER, action: ORGANIZER },
+  "organize/:competitionId/stage": { loader: ORGANIZER, action: ORGANIZER },
   "stage/:competitionId": { loader: ORGANIZER },
   "e/:eventSlug": { loader: PUBLIC, note: "the party page: public once a compo is past draft" },
   "e/:eventSlug/calendar.ics": { loader: PUBLIC },
