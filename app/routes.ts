@@ -66,6 +66,7 @@ export default [
   route("e/:eventSlug/:competitionSlug/results", "routes/results.tsx"),
   route("e/:eventSlug/:competitionSlug/results.csv", "routes/results.csv.ts"),
   route("e/:eventSlug/:competitionSlug/results.txt", "routes/results.txt.ts"),
+  route("e/:eventSlug/:competitionSlug/results.json", "routes/results.json.ts"),
   route("e/:eventSlug/:competitionSlug/recount.json", "routes/recount.json.ts"),
   route("api/ballots/:competitionId", "routes/api.ballots.ts"),
   route("organize/:competitionId/audience", "routes/organize.audience.tsx"),

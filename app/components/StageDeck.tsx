@@ -1,4 +1,5 @@
 import { useCallback, useEffect, useRef, useState } from "react";
+import { formatInZone } from "~/competitions/timezone";
 import { STAGE_AUDIO_CAUTION, STAGE_FLASH_CAUTION } from "~/stage/caution";
 import { STAGE_SOURCE, stageFitCss } from "~/stage/scale";
 import type { StageScreen, StageVideo } from "~/stage/screens";
@@ -191,7 +192,7 @@ function Screen({ s, onPlay }: { s: StageScreen; onPlay: () => void }) {
           <p className="mt-8 text-3xl font-extrabold text-[#ffd1dd]">If flashing lights affect you, look away from the screen now.</p>
           <p className="mx-auto mt-8 max-w-4xl text-xl text-white/70">{STAGE_FLASH_CAUTION}</p>
           <p className="mt-6 text-xl text-white/60" data-testid="stage-signoff">
-            Shown on the sign-off of {s.signOff.by}, {new Date(s.signOff.at).toLocaleString("en-GB", { timeZone: s.timeZone, dateStyle: "medium", timeStyle: "short" })} ({s.timeZone}).
+            Shown on the sign-off of {s.signOff.by}, {formatInZone(s.signOff.at, s.timeZone)}.
           </p>
         </div>
       );

@@ -565,6 +565,8 @@ export const resultsSnapshots = pgTable(
     version: integer("version").notNull(),
     payload: jsonb("payload").notNull(),
     sha256: text("sha256").notNull(),
+    /** How sha256 was made (app/results/canonical.ts); versions from before the tag keep the earlier scheme. */
+    hashScheme: text("hash_scheme").notNull().default("gatecrash-json/1"),
     note: text("note").notNull().default(""),
     publishedBy: text("published_by").references(() => user.id),
     publishedAt: ts("published_at").notNull().defaultNow(),

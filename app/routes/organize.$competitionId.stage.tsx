@@ -1,6 +1,7 @@
 import { Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import { readForm } from "~/api/body.server";
+import { formatInZone } from "~/competitions/timezone";
 import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
 import { STAGE_AUDIO_CAUTION, STAGE_FLASH_CAUTION } from "~/stage/caution";
 import { chooseStageSource, runningOrder, signOffFlagged, withdrawSignOff } from "~/stage/running-order.server";
@@ -56,7 +57,6 @@ export default function StageRunningOrder({ loaderData, actionData }: Route.Comp
   const { competition: c, order } = loaderData;
   const nav = useNavigation();
   const busy = nav.state !== "idle";
-  const fmt = (iso: string) => new Date(iso).toLocaleString("en-GB", { timeZone: c.timeZone, dateStyle: "medium", timeStyle: "short" });
   const heldBack = order.filter((r) => !r.onStage).length;
   return (
     <div>
@@ -132,7 +132,7 @@ export default function StageRunningOrder({ loaderData, actionData }: Route.Comp
               <Form method="post" className="mt-3 text-sm" data-testid="signed-off">
                 <input type="hidden" name="intent" value="withdraw" />
                 <input type="hidden" name="entryId" value={r.entryId} />
-                Signed off by {r.signOff.by}, {fmt(r.signOff.at)} ({c.timeZone}).{" "}
+                Signed off by {r.signOff.by}, {formatInZone(r.signOff.at, c.timeZone)} ({c.timeZone}).{" "}
                 <button type="submit" className="underline" disabled={busy}>
                   Withdraw the sign-off
                 </button>

@@ -104,6 +104,7 @@ const TABLE: Record<string, Row> = {
   "e/:eventSlug/:competitionSlug/results": { loader: PUBLIC, note: "before publication the page says the results are not out yet" },
   "e/:eventSlug/:competitionSlug/results.csv": { loader: NOBODY },
   "e/:eventSlug/:competitionSlug/results.txt": { loader: NOBODY },
+  "e/:eventSlug/:competitionSlug/results.json": { loader: NOBODY },
   "e/:eventSlug/:competitionSlug/recount.json": { loader: NOBODY },
   "api/ballots/:competitionId": { loader: PUBLIC, action: "..........", note: "anyone may try with a vote code; tested in the voting suite" },
   "organize/:competitionId/audience": { loader: ORGANIZER, action: ORGANIZER },
