@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { formatInZone } from "~/competitions/timezone";
+import { formatInZone } from "~/competitions/zone-format";
 import { StateBadge } from "./StateBadge";
 
 export interface CompetitionListItem {

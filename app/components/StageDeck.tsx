@@ -1,5 +1,5 @@
 import { useCallback, useEffect, useRef, useState } from "react";
-import { formatInZone } from "~/competitions/timezone";
+import { formatInZone } from "~/competitions/zone-format";
 import { STAGE_AUDIO_CAUTION, STAGE_FLASH_CAUTION } from "~/stage/caution";
 import { STAGE_SOURCE, stageFitCss } from "~/stage/scale";
 import type { StageScreen, StageVideo } from "~/stage/screens";

@@ -1,5 +1,5 @@
 import { useEffect, useState } from "react";
-import { formatInZone } from "~/competitions/timezone";
+import { formatInZone } from "~/competitions/zone-format";
 import { countdownText } from "~/entries/deadline";
 
 /**

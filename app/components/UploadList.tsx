@@ -1,5 +1,5 @@
 import { Form } from "react-router";
-import { formatInZone } from "~/competitions/timezone";
+import { formatInZone } from "~/competitions/zone-format";
 import type { UploadRow } from "~/entries/shapes";
 const fmt = (iso: string, timeZone: string) => formatInZone(iso, timeZone, { seconds: true });
 

@@ -5,7 +5,7 @@ import { VIDEO_MODES } from "~/rules/video-modes";
 import { formatFee } from "~/competitions/forms";
 import { cutoffOf } from "~/entries/deadline";
 import { publicCompetition } from "~/competitions/public.server";
-import { formatInZone } from "~/competitions/timezone";
+import { formatInZone } from "~/competitions/zone-format";
 import { TileShapes } from "~/competitions/ui/TileShapes";
 import { StateBadge } from "~/components/StateBadge";
 import type { Route } from "./+types/e.$eventSlug.$competitionSlug";

@@ -1,7 +1,7 @@
 import { Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import { readForm } from "~/api/body.server";
-import { formatInZone } from "~/competitions/timezone";
+import { formatInZone } from "~/competitions/zone-format";
 import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
 import { STAGE_AUDIO_CAUTION, STAGE_FLASH_CAUTION } from "~/stage/caution";
 import { chooseStageSource, runningOrder, signOffFlagged, withdrawSignOff } from "~/stage/running-order.server";
