@@ -15,7 +15,7 @@ import { resultsMail } from "./mail";
 
 /**
  * Standings (live, for the organizer's preview) and results (published, frozen). A published version is a
- * results_snapshots row whose payload is never updated; its SHA-256 is over the canonical JSON of the payload.
+ * results_snapshots row whose payload is never updated; its SHA-256 is over the canonical JSON of the payload, by the scheme tagged on the row (app/results/canonical.ts).
  * A correction is a new version with a note. The payload carries the anonymised recount files, so what anyone
  * downloads is exactly what was counted.
  */
