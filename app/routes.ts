@@ -66,12 +66,14 @@ export default [
   route("e/:eventSlug/:competitionSlug/results", "routes/results.tsx"),
   route("e/:eventSlug/:competitionSlug/results.csv", "routes/results.csv.ts"),
   route("e/:eventSlug/:competitionSlug/results.txt", "routes/results.txt.ts"),
+  route("e/:eventSlug/:competitionSlug/results.json", "routes/results.json.ts"),
   route("e/:eventSlug/:competitionSlug/recount.json", "routes/recount.json.ts"),
   route("api/ballots/:competitionId", "routes/api.ballots.ts"),
   route("organize/:competitionId/audience", "routes/organize.audience.tsx"),
   route("organize/:competitionId/audience/codes", "routes/organize.audience.codes.ts"),
   route("organize/:competitionId/audience/codes.csv", "routes/organize.audience.codes-csv.ts"),
   route("organize/:competitionId/results", "routes/organize.results.tsx"),
+  route("organize/:competitionId/stage", "routes/organize.$competitionId.stage.tsx"),
   route("stage/:competitionId", "routes/stage.tsx"),
   // end showcase block
   // the party around the compos: public page, timetable, party results; organizer codes, awards, archive (app/party, app/archive)

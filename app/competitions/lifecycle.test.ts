@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { DEMO_RULESET } from "~/rules/ruleset";
-import { isDue, transitionProblem, uploadsStopAt } from "./lifecycle";
+import { isDue, transitionProblem } from "./lifecycle";
 
 const now = new Date("2027-03-01T12:00:00Z");
 const later = new Date("2027-03-28T18:00:00Z");
@@ -31,6 +31,5 @@ describe("lifecycle guards", () => {
     expect(isDue({ state: "open", deadlineAt: d }, d)).toBe(true);
     expect(isDue({ state: "open", deadlineAt: d }, new Date(d.getTime() + 1))).toBe(true);
     expect(isDue({ state: "draft", deadlineAt: d }, new Date(d.getTime() + 1))).toBe(false);
-    expect(uploadsStopAt({ deadlineAt: d, graceMinutes: 10 })?.toISOString()).toBe("2027-03-28T18:10:00.000Z");
   });
 });

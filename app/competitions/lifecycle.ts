@@ -55,8 +55,3 @@ export function scoringWindow(state: CompetitionState): ScoringWindow {
 export function isDue(c: { state: string; deadlineAt: Date | null }, now: Date): boolean {
   return c.state === "open" && c.deadlineAt != null && c.deadlineAt.getTime() <= now.getTime();
 }
-
-/** Uploads finishing up to graceMinutes after the deadline still count. */
-export function uploadsStopAt(c: { deadlineAt: Date | null; graceMinutes: number }): Date | null {
-  return c.deadlineAt ? new Date(c.deadlineAt.getTime() + c.graceMinutes * 60_000) : null;
-}

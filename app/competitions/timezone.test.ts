@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { isValidTimeZone, utcToZonedWallTime, zonedWallTimeToUtc, zoneOffsetMinutes } from "./timezone";
+import { formatInZone, isValidTimeZone, utcToZonedWallTime, zonedWallTimeToUtc, zoneOffsetMinutes } from "./timezone";
 
 /*
  * Reference: the IANA time zone database (through Intl in Node's ICU). Europe/Berlin follows the EU rule:
@@ -70,10 +70,57 @@ describe("time zone helpers", () => {
   });
 });
 
+/*
+ * 2026's changes, from the IANA tz database's `europe` file: Zone Europe/Berlin follows "Rule EU 1981 max - Mar
+ * lastSun 1:00u 1:00 S" and "Rule EU 1996 max - Oct lastSun 1:00u 0 -", i.e. 01:00 UTC on the last Sundays of
+ * March and October: 2026-03-29 (02:00 CET → 03:00 CEST) and 2026-10-25 (03:00 CEST → 02:00 CET).
+ */
+describe("Europe/Berlin on 2026's daylight-saving changes (IANA tz database, EU rule)", () => {
+  const tz = "Europe/Berlin";
+  it("2026-03-29: the hour 02:00–02:59 does not exist; 01:59:59 CET is one second before 03:00 CEST", () => {
+    expect(utc(zonedWallTimeToUtc("2026-03-29T01:59:59", tz))).toBe("2026-03-29T00:59:59.000Z");
+    expect(utc(zonedWallTimeToUtc("2026-03-29T02:00", tz))).toBe("nonexistent");
+    expect(utc(zonedWallTimeToUtc("2026-03-29T02:59:59", tz))).toBe("nonexistent");
+    expect(utc(zonedWallTimeToUtc("2026-03-29T03:00", tz))).toBe("2026-03-29T01:00:00.000Z");
+    expect(zoneOffsetMinutes(new Date("2026-03-29T00:59:59Z"), tz)).toBe(60);
+    expect(zoneOffsetMinutes(new Date("2026-03-29T01:00:00Z"), tz)).toBe(120);
+    // the day before it has no gap: the rule is the last Sunday, not a fixed date
+    expect(utc(zonedWallTimeToUtc("2026-03-28T02:30", tz))).toBe("2026-03-28T01:30:00.000Z");
+  });
+  it("2026-10-25: 02:00–02:59 happens twice; the first (CEST) is taken and flagged ambiguous", () => {
+    const r = zonedWallTimeToUtc("2026-10-25T02:30", tz);
+    expect(r).toEqual({ ok: true, utc: new Date("2026-10-25T00:30:00.000Z"), ambiguous: true });
+    expect(utc(zonedWallTimeToUtc("2026-10-25T01:59", tz))).toBe("2026-10-24T23:59:00.000Z");
+    expect(zonedWallTimeToUtc("2026-10-25T03:00", tz)).toEqual({ ok: true, utc: new Date("2026-10-25T02:00:00.000Z"), ambiguous: false });
+    // both readings of 02:30 are shown with their own abbreviation
+    expect(formatInZone("2026-10-25T00:30:00Z", tz)).toBe("25 Oct 2026, 02:30 CEST");
+    expect(formatInZone("2026-10-25T01:30:00Z", tz)).toBe("25 Oct 2026, 02:30 CET");
+    expect(utcToZonedWallTime(new Date("2026-10-25T01:30:00Z"), tz)).toBe("2026-10-25T02:30");
+  });
+  it("round-trips every minute of both days that exists, and refuses exactly the skipped hour", () => {
+    let refused = 0;
+    for (const day of ["2026-03-29", "2026-10-25"]) {
+      for (let min = 0; min < 24 * 60; min++) {
+        const local = `${day}T${String(Math.floor(min / 60)).padStart(2, "0")}:${String(min % 60).padStart(2, "0")}`;
+        const r = zonedWallTimeToUtc(local, tz);
+        if (!r.ok) {
+          expect(r.reason).toBe("nonexistent");
+          expect(local >= "2026-03-29T02:00" && local < "2026-03-29T03:00").toBe(true);
+          refused++;
+          continue;
+        }
+        expect(utcToZonedWallTime(r.utc, tz)).toBe(local);
+        expect(r.ambiguous).toBe(local >= "2026-10-25T02:00" && local < "2026-10-25T03:00");
+      }
+    }
+    expect(refused).toBe(60);
+  });
+});
+
 describe("formatInZone", () => {
   it("names the zone's abbreviation (CET in winter, CEST in summer, per the IANA database)", async () => {
-    const { formatInZone } = await import("./timezone");
     expect(formatInZone(new Date("2027-03-28T18:00:00Z"), "Europe/Berlin")).toMatch(/28 Mar 2027.*20:00.*CEST/);
     expect(formatInZone("2027-01-10T18:00:00Z", "Europe/Berlin")).toMatch(/10 Jan 2027.*19:00.*CET/);
+    expect(formatInZone("2027-01-10T18:00:05Z", "Europe/Berlin", { seconds: true })).toBe("10 Jan 2027, 19:00:05 CET");
   });
 });

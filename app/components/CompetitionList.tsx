@@ -1,4 +1,5 @@
 import { Link } from "react-router";
+import { formatInZone } from "~/competitions/zone-format";
 import { StateBadge } from "./StateBadge";
 
 export interface CompetitionListItem {
@@ -10,11 +11,6 @@ export interface CompetitionListItem {
   eventSlug: string;
   eventTitle: string;
   timeZone: string;
-}
-
-export function formatInZone(iso: string, timeZone: string): string {
-  // dateStyle cannot be combined with timeZoneName, so the fields are spelled out.
-  return new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", timeZone, timeZoneName: "short" }).format(new Date(iso));
 }
 
 export function CompetitionList({ items, linkTo }: { items: CompetitionListItem[]; linkTo: (c: CompetitionListItem) => string }) {

@@ -1,5 +1,5 @@
 import { Form } from "react-router";
-import { formatInZone } from "~/competitions/timezone";
+import { formatInZone } from "~/competitions/zone-format";
 
 /**
  * An entry's late exception: what everyone who sees the entry reads (until when, why, who granted it), and the

@@ -1,11 +1,16 @@
 import { useCallback, useEffect, useRef, useState } from "react";
-import type { StageScreen } from "~/stage/screens";
+import { formatInZone } from "~/competitions/zone-format";
+import { STAGE_AUDIO_CAUTION, STAGE_FLASH_CAUTION } from "~/stage/caution";
+import { STAGE_SOURCE, stageFitCss } from "~/stage/scale";
+import type { StageScreen, StageVideo } from "~/stage/screens";
 import { ShowcaseStats } from "./ShowcaseStats";
 
 /**
  * Stage mode for the big screen: dark, large type, driven by the keyboard.
  * → / Space / PageDown next · ← / PageUp previous · Home first · End last · F full screen · Enter plays the capture
- * (after the on-screen photosensitivity warning).
+ * (after the on-screen photosensitivity warning) · Escape stops it. A capture plays from the start with sound,
+ * over the whole stage at 640×480 scaled by whole screen pixels, letterboxed (app/stage/scale.ts).
+ * Flagged entries are not in the list unless an organizer signed off; then a warning slide comes first.
  */
 export function StageDeck({ screens, exitHref }: { screens: StageScreen[]; exitHref: string }) {
   const [i, setI] = useState(() => {
@@ -60,17 +65,25 @@ export function StageDeck({ screens, exitHref }: { screens: StageScreen[]; exitH
           if (document.fullscreenElement) void document.exitFullscreen();
           else void root.current?.requestFullscreen?.();
           break;
-        case "Enter":
-          if (screens[i]?.kind === "entry") {
+        case "Enter": {
+          const cur = screens[i];
+          if (cur?.kind === "entry" && cur.video) {
             ev.preventDefault();
             setPlaying(true);
+          }
+          break;
+        }
+        case "Escape":
+          if (playing) {
+            ev.preventDefault();
+            setPlaying(false);
           }
           break;
       }
     }
     window.addEventListener("keydown", onKey);
     return () => window.removeEventListener("keydown", onKey);
-  }, [go, i, screens]);
+  }, [go, i, screens, playing]);
 
   const s = screens[i];
   return (
@@ -92,10 +105,11 @@ export function StageDeck({ screens, exitHref }: { screens: StageScreen[]; exitH
         </span>
       </div>
       <section className="flex flex-1 items-center justify-center px-16 py-8" aria-live="polite" data-testid={`stage-screen-${s.kind}`}>
-        <Screen s={s} playing={playing} onPlay={() => setPlaying(true)} />
+        <Screen s={s} onPlay={() => setPlaying(true)} />
       </section>
+      {playing && s.kind === "entry" && s.video && <StagePlayer video={s.video} poster={s.poster} />}
       <div className="flex items-center justify-between px-10 pb-5 text-xs text-white/40">
-        <span>→ / Space next · ← back · Home start · F full screen{s.kind === "entry" ? " · Enter play" : ""}</span>
+        <span>→ / Space next · ← back · Home start · F full screen{s.kind === "entry" ? " · Enter play · Esc stop" : ""}</span>
         <a href={exitHref} className="underline hover:text-white">
           Leave stage mode
         </a>
@@ -104,7 +118,58 @@ export function StageDeck({ screens, exitHref }: { screens: StageScreen[]; exitH
   );
 }
 
-function Screen({ s, playing, onPlay }: { s: StageScreen; playing: boolean; onPlay: () => void }) {
+/**
+ * The capture over the whole stage: black around it, the picture at a whole number of screen pixels per pixel,
+ * nearest-neighbour. Mounted fresh for every play, so it starts from the beginning; sound on (the Enter key that
+ * started it is the user gesture browsers ask for before playing sound).
+ */
+function StagePlayer({ video, poster }: { video: StageVideo; poster: string | null }) {
+  const [screen, setScreen] = useState<{ w: number; h: number; dpr: number } | null>(null);
+  const [source, setSource] = useState<{ width: number; height: number }>(STAGE_SOURCE);
+  const [ended, setEnded] = useState(false);
+  useEffect(() => {
+    const measure = () => setScreen({ w: window.innerWidth, h: window.innerHeight, dpr: window.devicePixelRatio });
+    measure();
+    window.addEventListener("resize", measure);
+    return () => window.removeEventListener("resize", measure);
+  }, []);
+  const fit = screen ? stageFitCss(screen.w, screen.h, screen.dpr, source) : null;
+  return (
+    <div className="fixed inset-0 z-[60] bg-black" data-testid="stage-player">
+      {fit && (
+        <video
+          key={video.src}
+          autoPlay
+          playsInline
+          preload="auto"
+          poster={poster ?? undefined}
+          onLoadedMetadata={(ev) => {
+            const v = ev.currentTarget;
+            v.currentTime = 0;
+            // The reference capture is 640×480; a crew's own video is fitted by its own size, by the same rule.
+            if (v.videoWidth > 0 && v.videoHeight > 0 && (v.videoWidth !== source.width || v.videoHeight !== source.height)) setSource({ width: v.videoWidth, height: v.videoHeight });
+          }}
+          onEnded={() => setEnded(true)}
+          className="absolute bg-black"
+          style={{ imageRendering: "pixelated", left: fit.left, top: fit.top, width: fit.width, height: fit.height }}
+          data-testid="stage-video"
+          data-scale={fit.scale}
+          data-whole={fit.whole ? "yes" : "no"}
+          data-source={video.source}
+        >
+          <source src={video.src} type={video.type} />
+        </video>
+      )}
+      {ended && (
+        <p className="absolute inset-x-0 bottom-6 text-center text-xl text-white/60" data-testid="stage-video-ended">
+          End of the capture · → next · Esc back to the entry
+        </p>
+      )}
+    </div>
+  );
+}
+
+function Screen({ s, onPlay }: { s: StageScreen; onPlay: () => void }) {
   switch (s.kind) {
     case "intro":
       return (
@@ -113,7 +178,21 @@ function Screen({ s, playing, onPlay }: { s: StageScreen; playing: boolean; onPl
           <h1 className="mt-6 text-8xl font-extrabold leading-none">{s.title}</h1>
           <p className="mx-auto mt-8 max-w-3xl text-3xl text-white/80">{s.description}</p>
           <p className="mt-10 text-2xl text-white/60">
-            {s.entryCount} entries on the big screen{s.skipped ? ` · ${s.skipped} flagged by the flash check and left out` : ""}
+            {s.entryCount} entries on the big screen{s.heldBack ? ` · ${s.heldBack} held back by the flash check` : ""}
+          </p>
+        </div>
+      );
+    case "flash-warning":
+      return (
+        <div role="alert" className="max-w-6xl rounded-2xl border-8 border-[#ff4f7b] bg-[#3a0d1e] px-14 py-12 text-center" data-testid="stage-flash-warning">
+          <p className="text-3xl font-semibold uppercase tracking-[0.3em] text-[#ffd1dd]">Photosensitivity warning</p>
+          <h2 className="mt-6 text-7xl font-extrabold leading-tight">The next entry may flash</h2>
+          <p className="mt-6 text-4xl font-semibold text-white">{s.title}</p>
+          <p className="mt-6 text-3xl text-white/90" data-testid="flash-statement">{s.flash.statement}</p>
+          <p className="mt-8 text-3xl font-extrabold text-[#ffd1dd]">If flashing lights affect you, look away from the screen now.</p>
+          <p className="mx-auto mt-8 max-w-4xl text-xl text-white/70">{STAGE_FLASH_CAUTION}</p>
+          <p className="mt-6 text-xl text-white/60" data-testid="stage-signoff">
+            Shown on the sign-off of {s.signOff.by}, {formatInZone(s.signOff.at, s.timeZone)}.
           </p>
         </div>
       );
@@ -121,34 +200,22 @@ function Screen({ s, playing, onPlay }: { s: StageScreen; playing: boolean; onPl
       return (
         <div className={`grid w-full max-w-[110rem] grid-cols-[3fr_2fr] items-center gap-12`}>
           <div className="relative">
-            {s.dimmed && (
-              <div role="alert" className="mb-4 rounded-lg border-4 border-[#ff4f7b] bg-[#3a0d1e] px-6 py-4 text-2xl font-extrabold text-[#ffd1dd]" data-testid="stage-flash-warning">
-                ⚠ Flash warning — {s.flash.statement} Shown dimmed.
+            {s.flagged && (
+              <div role="alert" className="mb-4 rounded-lg border-4 border-[#ff4f7b] bg-[#3a0d1e] px-6 py-4 text-2xl font-extrabold text-[#ffd1dd]" data-testid="stage-flash-flagged">
+                ⚠ Flash warning — {s.flash.statement} Shown on an organizer's sign-off.
               </div>
             )}
             {!s.video ? (
               <div className="flex aspect-[4/3] items-center justify-center rounded-xl border-2 border-dashed border-white/30 text-3xl text-white/60" data-testid="player-not-ready">
                 Reference capture not ready yet
               </div>
-            ) : playing ? (
-              <video
-                key={s.video.src}
-                autoPlay
-                loop
-                playsInline
-                poster={s.poster ?? undefined}
-                className={`aspect-[4/3] w-full rounded-xl bg-black ${s.dimmed ? "opacity-40 saturate-50" : ""}`}
-                style={{ imageRendering: "pixelated" }}
-                data-testid="stage-video"
-              >
-                <source src={s.video.src} type={s.video.type} />
-              </video>
             ) : (
               <div className="flex aspect-[4/3] flex-col items-center justify-center gap-5 rounded-xl border-2 border-[#ffb020] bg-[#2a1e05] p-10 text-center" data-testid="photosensitivity-gate">
                 <p className="text-3xl font-extrabold text-[#ffd37a]">Photosensitivity warning</p>
                 <p className="text-2xl text-white/85">This capture may flash. Look away if flashing lights affect you.</p>
                 <p className="text-2xl font-semibold text-white" data-testid="flash-statement">{s.flash.statement}</p>
-                <p className="text-lg text-white/60">Audio is a 1-bit PWM pin: through a low-pass filter, at low volume.</p>
+                <p className="text-lg text-white/60">{STAGE_AUDIO_CAUTION}</p>
+                <p className="text-base text-white/50">{s.video.source === "crew" ? "Plays the crew's own video" : "Plays the reference capture"}, from the start, with sound, full screen.</p>
                 <button type="button" onClick={onPlay} className="rounded-lg bg-[#ff7a3d] px-6 py-3 text-2xl font-extrabold text-[#0e0b16]">
                   Play (Enter)
                 </button>

@@ -1,7 +1,7 @@
 import { Form } from "react-router";
+import { formatInZone } from "~/competitions/zone-format";
 import type { UploadRow } from "~/entries/shapes";
-const fmt = (iso: string, timeZone: string) =>
-  new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "long", timeZone }).format(new Date(iso));
+const fmt = (iso: string, timeZone: string) => formatInZone(iso, timeZone, { seconds: true });
 
 const size = (n: number) => (n < 1024 ? `${n} B` : n < 1048576 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1048576).toFixed(1)} MiB`);
 

@@ -175,7 +175,6 @@ export const competitions = pgTable(
     blindJudging: boolean("blind_judging").notNull().default(true),
     orderMode: text("order_mode").notNull().default("shared"), // shared | per-judge
     orderSeed: text("order_seed").notNull().default(sql`md5(random()::text)`),
-    stageFlashMode: text("stage_flash_mode").notNull().default("dim"), // dim | skip
     judgingLocked: boolean("judging_locked").notNull().default(false),
     /** When the compo's entries are shown on the big screen (the party timetable); null = not scheduled yet. */
     showStartsAt: ts("show_starts_at"),
@@ -566,6 +565,8 @@ export const resultsSnapshots = pgTable(
     version: integer("version").notNull(),
     payload: jsonb("payload").notNull(),
     sha256: text("sha256").notNull(),
+    /** How sha256 was made (app/results/canonical.ts); versions from before the tag keep the earlier scheme. */
+    hashScheme: text("hash_scheme").notNull().default("gatecrash-json/1"),
     note: text("note").notNull().default(""),
     publishedBy: text("published_by").references(() => user.id),
     publishedAt: ts("published_at").notNull().defaultNow(),
@@ -625,3 +626,19 @@ export const auditLog = pgTable(
   },
   (t) => [index("audit_event_idx").on(t.eventId)],
 );
+
+/**
+ * Stage mode's per-entry choices: which file the big screen plays (the reference capture, or the crew's own
+ * video when its own flash verdict passed) and an organizer's sign-off to show a flagged entry, bound to the
+ * upload it was given for (a new counting upload needs a new sign-off). The audit log keeps who and when.
+ */
+export const stagePlays = pgTable("stage_plays", {
+  entryId: uuid("entry_id")
+    .primaryKey()
+    .references(() => entries.id, { onDelete: "cascade" }),
+  source: text("source").notNull().default("reference"), // reference | crew
+  signedOffUploadId: uuid("signed_off_upload_id").references(() => uploads.id, { onDelete: "set null" }),
+  signedOffBy: text("signed_off_by").references(() => user.id, { onDelete: "set null" }),
+  signedOffAt: ts("signed_off_at"),
+  updatedAt: ts("updated_at").notNull().defaultNow(),
+});

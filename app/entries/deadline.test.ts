@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { zoneOffsetMinutes as offsetMinutes } from "~/competitions/timezone";
-import { cutoffOf, isOnTime, remainingMs, splitDuration } from "./deadline";
+import { countdownText, cutoffOf, isOnTime, remainingMs, splitDuration } from "./deadline";
 import { wallTimeInstant } from "../../tests/support/time";
 
 describe("deadline with grace", () => {
@@ -50,5 +50,25 @@ describe("a deadline on a daylight-saving change (reference: the IANA tz databas
     const now = wallTimeInstant("2027-03-27T03:00", tz); // the day before, same wall time, but only 23 h earlier
     expect(splitDuration(remainingMs(now, deadline))).toEqual({ days: 0, hours: 23, minutes: 0, seconds: 0 });
     expect(remainingMs(new Date(deadline.getTime() + 5), deadline)).toBe(0);
+  });
+});
+
+describe("the upload countdown's text across 2026's changes in Europe/Berlin (IANA tz database, EU rule: 2026-03-29 and 2026-10-25)", () => {
+  const tz = "Europe/Berlin";
+  it("counts real hours: from Saturday 12:00 to Sunday 12:00 is 23 h in March and 25 h in October", () => {
+    expect(countdownText(wallTimeInstant("2026-03-28T12:00", tz), wallTimeInstant("2026-03-29T12:00", tz))).toBe("0d 23:00:00");
+    expect(countdownText(wallTimeInstant("2026-10-24T12:00", tz), wallTimeInstant("2026-10-25T12:00", tz))).toBe("1d 01:00:00");
+  });
+  it("counts the cutoff with its grace across the jump: deadline 01:50 CET + 15 min grace = 03:05 CEST", () => {
+    const cutoff = cutoffOf(wallTimeInstant("2026-03-29T01:50", tz), 15)!;
+    expect(cutoff.toISOString()).toBe("2026-03-29T01:05:00.000Z");
+    expect(countdownText(wallTimeInstant("2026-03-29T01:49:59", tz), cutoff)).toBe("0d 00:15:01");
+  });
+  it("says Closed from the cutoff instant on, and a second before it one second", () => {
+    const cutoff = cutoffOf(wallTimeInstant("2026-10-25T02:30", tz), 0)!; // the first 02:30, CEST = 00:30Z
+    expect(countdownText(new Date(cutoff.getTime() - 1000), cutoff)).toBe("0d 00:00:01");
+    expect(countdownText(cutoff, cutoff)).toBe("Closed");
+    // the second 02:30 (CET) is an hour after the cutoff: still closed
+    expect(countdownText(new Date("2026-10-25T01:30:00Z"), cutoff)).toBe("Closed");
   });
 });

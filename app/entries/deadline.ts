@@ -1,7 +1,8 @@
 /**
  * Deadlines. Times are instants (UTC); the event's time zone only matters for showing them and for turning an
  * organizer's wall-clock time into an instant (app/competitions/timezone.ts). An upload is on time when the server completes it strictly before
- * deadline + grace; at that instant and after it is late.
+ * deadline + grace; at that instant and after it is late. `cutoffOf` is the one cut-off: the entry page, its
+ * countdown, the compo pages, late exceptions and the upload state machine all take it from here.
  */
 export function cutoffOf(deadlineAt: Date | null, graceMinutes: number): Date | null {
   return deadlineAt ? new Date(deadlineAt.getTime() + graceMinutes * 60_000) : null;
@@ -18,8 +19,17 @@ export function remainingMs(now: Date, cutoff: Date): number {
 }
 
 export function splitDuration(ms: number): { days: number; hours: number; minutes: number; seconds: number } {
-  const s = Math.floor(ms / 1000);
+  const s = Math.max(0, Math.floor(ms / 1000));
   return { days: Math.floor(s / 86400), hours: Math.floor((s % 86400) / 3600), minutes: Math.floor((s % 3600) / 60), seconds: s % 60 };
+}
+
+/** What the upload countdown shows at `now`: "1d 02:03:04" of real elapsed time, or "Closed" from the cutoff on. */
+export function countdownText(now: Date, cutoff: Date): string {
+  const left = remainingMs(now, cutoff);
+  if (left <= 0) return "Closed";
+  const p = splitDuration(left);
+  const two = (n: number) => String(n).padStart(2, "0");
+  return `${p.days}d ${two(p.hours)}:${two(p.minutes)}:${two(p.seconds)}`;
 }
 
 export type Timeliness = "on-time" | "exception" | "late";

@@ -10,12 +10,12 @@ import { mixStandings } from "~/scoring/mix";
 import type { RecountInput } from "~/scoring/recount";
 import { eligibleEntries } from "~/showcase/showcase.server";
 import { ballotsForCount, tallyFor, type BallotMethod } from "~/voting/voting.server";
-import { canonicalJson, payloadHash } from "./canonical";
+import { canonicalJson, CURRENT_HASH_SCHEME, isHashScheme, LEGACY_HASH_SCHEME, payloadHash, type HashScheme } from "./canonical";
 import { resultsMail } from "./mail";
 
 /**
  * Standings (live, for the organizer's preview) and results (published, frozen). A published version is a
- * results_snapshots row whose payload is never updated; its SHA-256 is over the canonical JSON of the payload.
+ * results_snapshots row whose payload is never updated; its SHA-256 is over the canonical JSON of the payload, by the scheme tagged on the row (app/results/canonical.ts).
  * A correction is a new version with a note. The payload carries the anonymised recount files, so what anyone
  * downloads is exactly what was counted.
  */
@@ -148,13 +148,16 @@ export interface PublishedVersion {
   id: string;
   version: number;
   sha256: string;
+  /** The scheme sha256 was made with (app/results/canonical.ts). */
+  hashScheme: HashScheme;
   note: string;
   publishedAt: string;
   payload: ResultsPayload;
 }
 
 function toVersion(r: typeof resultsSnapshots.$inferSelect): PublishedVersion {
-  return { id: r.id, version: r.version, sha256: r.sha256, note: r.note, publishedAt: r.publishedAt.toISOString(), payload: r.payload as ResultsPayload };
+  const hashScheme = isHashScheme(r.hashScheme) ? r.hashScheme : LEGACY_HASH_SCHEME;
+  return { id: r.id, version: r.version, sha256: r.sha256, hashScheme, note: r.note, publishedAt: r.publishedAt.toISOString(), payload: r.payload as ResultsPayload };
 }
 
 export async function publishedVersions(competitionId: string): Promise<{ version: number; note: string; publishedAt: string; sha256: string }[]> {
@@ -214,7 +217,7 @@ export async function publishResults(competitionId: string, actorUserId: string,
     const frozen = JSON.parse(canonicalJson(payload)) as ResultsPayload;
     const [row] = await tx
       .insert(resultsSnapshots)
-      .values({ competitionId, version, payload: frozen, sha256: payloadHash(frozen), note: trimmedNote, publishedBy: actorUserId })
+      .values({ competitionId, version, payload: frozen, sha256: payloadHash(frozen, CURRENT_HASH_SCHEME), hashScheme: CURRENT_HASH_SCHEME, note: trimmedNote, publishedBy: actorUserId })
       .returning();
     await tx.update(competitions).set({ state: "results", updatedAt: new Date() }).where(eq(competitions.id, competitionId));
     return toVersion(row);
@@ -226,7 +229,7 @@ export async function publishResults(competitionId: string, actorUserId: string,
     action: published.version === 1 ? "results.published" : "results.corrected",
     subjectType: "competition",
     subjectId: competitionId,
-    details: { version: published.version, sha256: published.sha256, note: published.note },
+    details: { version: published.version, sha256: published.sha256, hashScheme: published.hashScheme, note: published.note },
   });
   await mailEntrants(published);
   return published;
@@ -257,7 +260,7 @@ async function mailEntrants(p: PublishedVersion): Promise<void> {
   }
 }
 
-/** Verifies a stored version: the hash of its canonical payload still equals the published hash. */
-export function verifySnapshot(v: Pick<PublishedVersion, "payload" | "sha256">): boolean {
-  return payloadHash(v.payload) === v.sha256;
+/** Verifies a stored version by its own scheme: the hash of its canonical payload still equals the published hash. */
+export function verifySnapshot(v: Pick<PublishedVersion, "payload" | "sha256" | "hashScheme">): boolean {
+  return payloadHash(v.payload, v.hashScheme) === v.sha256;
 }

@@ -3,7 +3,7 @@ import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, redirect, useActionData, useNavigation } from "react-router";
 import { requireUser } from "~/auth/guards.server";
 import type { RequestContext } from "~/auth/guards.server";
-import { formatInZone } from "~/components/CompetitionList";
+import { formatInZone } from "~/competitions/timezone";
 import { FormErrors, FormField } from "~/components/FormField";
 import { crewsOf } from "~/crews/service.server";
 import { cutoffOf } from "~/entries/deadline";

@@ -3,9 +3,9 @@ import { data, Link } from "react-router";
 import { acceptanceWindow, expectedRates } from "~/rules/monitor";
 import { VIDEO_MODES } from "~/rules/video-modes";
 import { formatFee } from "~/competitions/forms";
-import { uploadsStopAt } from "~/competitions/lifecycle";
+import { cutoffOf } from "~/entries/deadline";
 import { publicCompetition } from "~/competitions/public.server";
-import { formatInZone } from "~/competitions/timezone";
+import { formatInZone } from "~/competitions/zone-format";
 import { TileShapes } from "~/competitions/ui/TileShapes";
 import { StateBadge } from "~/components/StateBadge";
 import type { Route } from "./+types/e.$eventSlug.$competitionSlug";
@@ -27,7 +27,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
       description: c.description,
       state: c.state,
       deadlineAt: iso(c.deadlineAt),
-      uploadsStopAt: iso(uploadsStopAt(c)),
+      uploadsStopAt: iso(cutoffOf(c.deadlineAt, c.graceMinutes)),
       graceMinutes: c.graceMinutes,
       votingOpensAt: iso(c.votingOpensAt),
       votingClosesAt: iso(c.votingClosesAt),

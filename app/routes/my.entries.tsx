@@ -2,7 +2,7 @@ import { eq, inArray } from "drizzle-orm";
 import { Link } from "react-router";
 import { crewIdsOf, requireUser } from "~/auth/guards.server";
 import { publicCompetitions } from "~/competitions/listing.server";
-import { formatInZone } from "~/components/CompetitionList";
+import { formatInZone } from "~/competitions/timezone";
 import { StateBadge } from "~/components/StateBadge";
 import { crewsOf } from "~/crews/service.server";
 import { db } from "~/db/client.server";

@@ -2,7 +2,8 @@ import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireCompetitionRole } from "~/competitions/access.server";
 import { formatFee } from "~/competitions/forms";
-import { COMPETITION_STATES, TRANSITION_LABELS, TRANSITIONS, transitionProblem, uploadsStopAt } from "~/competitions/lifecycle";
+import { COMPETITION_STATES, TRANSITION_LABELS, TRANSITIONS, transitionProblem } from "~/competitions/lifecycle";
+import { cutoffOf } from "~/entries/deadline";
 import { entryCounts, moveCompetition } from "~/competitions/service.server";
 import { formatInZone } from "~/competitions/timezone";
 import { StateBadge } from "~/components/StateBadge";
@@ -25,7 +26,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
       slug: c.slug,
       state: c.state,
       deadline: fmt(c.deadlineAt),
-      uploadsStop: fmt(uploadsStopAt(c)),
+      uploadsStop: fmt(cutoffOf(c.deadlineAt, c.graceMinutes)),
       graceMinutes: c.graceMinutes,
       votingOpens: fmt(c.votingOpensAt),
       votingCloses: fmt(c.votingClosesAt),

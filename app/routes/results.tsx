@@ -5,6 +5,7 @@ import { StateBadge } from "~/components/StateBadge";
 import { requestedVersion, requirePublicCompetition } from "~/results/page.server";
 import { publicAwardsOfCompetition } from "~/results/awards.server";
 import { publishedResults, publishedVersions } from "~/results/results.server";
+import { hashSchemeLabel } from "~/results/canonical";
 import { METHOD_NAMES } from "~/results/format";
 import type { Route } from "./+types/results";
 import { data } from "react-router";
@@ -18,7 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     competition: { title: c.title, eventTitle: c.eventTitle, eventSlug: c.eventSlug, slug: c.slug, state: c.state },
     versions,
-    shown: shown ? { version: shown.version, sha256: shown.sha256, note: shown.note, publishedAt: shown.publishedAt, payload: { method: shown.payload.method, counts: shown.payload.counts, standings: shown.payload.standings, rules: shown.payload.rules, criteria: shown.payload.criteria.map((k) => ({ name: k.name, weight: k.weight })) } } : null,
+    shown: shown ? { version: shown.version, sha256: shown.sha256, hashScheme: shown.hashScheme, hashLabel: hashSchemeLabel(shown.hashScheme), note: shown.note, publishedAt: shown.publishedAt, payload: { method: shown.payload.method, counts: shown.payload.counts, standings: shown.payload.standings, rules: shown.payload.rules, criteria: shown.payload.criteria.map((k) => ({ name: k.name, weight: k.weight })) } } : null,
     newest: versions[0]?.version ?? null,
     awards: shown ? (await publicAwardsOfCompetition(c.eventId, c.id)).map((a) => ({ id: a.id, title: a.title, citation: a.citation, entry: a.winner!.title, crew: a.winner!.crew })) : [],
   };
@@ -91,12 +92,14 @@ export default function Results({ loaderData }: Route.ComponentProps) {
               <ul className="mt-2 space-y-1 text-sm">
                 <li><a className="font-semibold text-signal" href={`${base}/results.csv?version=${shown.version}`}>Results as CSV</a></li>
                 <li><a className="font-semibold text-signal" href={`${base}/results.txt?version=${shown.version}`}>Plain-text results sheet</a></li>
+                <li><a className="font-semibold text-signal" href={`${base}/results.json?version=${shown.version}`}>The hashed results (JSON)</a></li>
                 <li><a className="font-semibold text-signal" href={`${base}/recount.json?version=${shown.version}&side=jury`}>Anonymised jury scores (recount file)</a></li>
                 <li><a className="font-semibold text-signal" href={`${base}/recount.json?version=${shown.version}&side=audience`}>Anonymised audience ballots (recount file)</a></li>
               </ul>
               <p className="mt-3 text-xs text-mute">
-                Recount either file with <code className="font-mono">npm run recount -- FILE</code>; mix the two sides with the rules beside. SHA-256 of this version's canonical JSON:{" "}
+                Recount either file with <code className="font-mono">npm run recount -- FILE</code>; mix the two sides with the rules beside. {shown.hashLabel} of this version:{" "}
                 <code className="break-all font-mono" data-testid="results-sha">{shown.sha256}</code>
+                {shown.hashScheme === "rfc8785-sha256" && <> — check it with any RFC 8785 tool, e.g. <code className="font-mono">canonicalize &lt; results.json | sha256sum</code>.</>}
               </p>
             </section>
             <section className="card">

@@ -1,6 +1,8 @@
 import Papa from "papaparse";
 
 /**
+ * Not a CSV writer of our own: papaparse's `unparse` does the export, formula escaping included (`escapeFormulae`);
+ * this module only fixes the options every Gatecrash CSV shares.
  * Every CSV Gatecrash hands out (results, vote codes): RFC 4180 framing with CRLF line ends by papaparse, and
  * formula injection neutralised — a text cell that starts with =, +, -, @, tab or carriage return gets a leading
  * single quote, so a spreadsheet shows it instead of evaluating it. Numbers stay numbers (a negative score is not a

@@ -29,7 +29,6 @@ export interface PublicCompetition {
   votingClosesAt: string | null;
   /** Crews are hidden while judging is blind and results are not out. */
   crewsHidden: boolean;
-  stageFlashMode: "dim" | "skip";
 }
 
 export interface ShowcaseMedia {
@@ -78,7 +77,6 @@ export function publicView(c: CompetitionRow, e: typeof events.$inferSelect): Pu
     votingOpensAt: c.votingOpensAt?.toISOString() ?? null,
     votingClosesAt: c.votingClosesAt?.toISOString() ?? null,
     crewsHidden: c.blindJudging && c.state !== "results",
-    stageFlashMode: c.stageFlashMode === "skip" ? "skip" : "dim",
   };
 }
 

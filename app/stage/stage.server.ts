@@ -2,10 +2,10 @@ import QRCode from "qrcode";
 import { env } from "~/env.server";
 import { publicAwardsOfCompetition } from "~/results/awards.server";
 import { publishedResults } from "~/results/results.server";
-import { isFlashFlagged } from "~/showcase/figures";
 import type { StageScreen } from "./screens";
 export type { StageScreen } from "./screens";
-import { showcaseEntries, type PublicCompetition } from "~/showcase/showcase.server";
+import type { PublicCompetition } from "~/showcase/showcase.server";
+import { runningOrder } from "./running-order.server";
 
 /**
  * The screens of stage mode, computed on the server in the order they are shown. The browser only moves a
@@ -16,24 +16,25 @@ export function voteUrl(c: Pick<PublicCompetition, "eventSlug" | "slug">): strin
 }
 
 export async function stageScreens(c: PublicCompetition): Promise<StageScreen[]> {
-  const list = await showcaseEntries(c);
-  const shown = c.stageFlashMode === "skip" ? list.filter((e) => !isFlashFlagged(e.flash)) : list;
+  const order = await runningOrder(c);
+  const shown = order.filter((r) => r.onStage);
   const screens: StageScreen[] = [
-    { kind: "intro", eventTitle: c.eventTitle, title: c.title, description: c.description, entryCount: shown.length, skipped: list.length - shown.length },
+    { kind: "intro", eventTitle: c.eventTitle, title: c.title, description: c.description, entryCount: shown.length, heldBack: order.length - shown.length },
   ];
-  shown.forEach((e, i) => {
-    const src = e.media.referenceWebm ?? e.media.referenceMp4;
+  shown.forEach((r, i) => {
+    // A flagged entry is here only on a sign-off, and then always behind its own warning slide.
+    if (r.flagged && r.signOff) screens.push({ kind: "flash-warning", title: r.entry.title, flash: r.flash, signOff: r.signOff, timeZone: c.timeZone });
     screens.push({
       kind: "entry",
       position: i + 1,
       total: shown.length,
-      title: e.title,
-      crew: e.crew,
-      stats: e.stats,
-      flash: e.flash,
-      dimmed: isFlashFlagged(e.flash),
-      video: src ? { src, type: e.media.referenceWebm ? "video/webm" : "video/mp4" } : null,
-      poster: e.media.firstFrame ?? e.media.still,
+      title: r.entry.title,
+      crew: r.entry.crew,
+      stats: r.entry.stats,
+      flash: r.flash,
+      flagged: r.flagged,
+      video: r.video,
+      poster: r.source === "reference" ? (r.entry.media.firstFrame ?? r.entry.media.still) : r.entry.media.still,
     });
   });
   const url = voteUrl(c);

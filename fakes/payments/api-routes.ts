@@ -4,7 +4,7 @@ import { timingSafeEqual } from "node:crypto";
 import { ApiError, resourceMissing } from "./errors";
 import type { EventLog, RequestOrigin } from "./events";
 import { applyExpansions, checkExpandable } from "./expand";
-import { parseFormBody, parseFormPairs, type FormObject } from "./form";
+import { parseFormBody, parseFormQuery, type FormObject } from "./form";
 import { readBody, sendJson, isFormContentType } from "./http";
 import { IdempotencyCache, requestFingerprint } from "./idempotency";
 import { newId } from "./ids";
@@ -140,7 +140,7 @@ export function createApiHandler(dependencies: ApiDependencies) {
         }
         data = parseFormBody(await readBody(request));
       } else {
-        data = parseFormPairs(url.searchParams);
+        data = parseFormQuery(url.search);
       }
 
       const idempotencyKey = method === "POST" ? headerValue(request, "idempotency-key") : undefined;

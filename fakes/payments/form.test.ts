@@ -57,11 +57,28 @@ describe("parseFormBody against the stripe SDK's own encoding", () => {
     await stripe.checkout.sessions.create(params);
     expect(parseFormBody(bodies.at(-1) as string)).toEqual(asWireStrings(params));
   });
+
+  it("keeps a long list a list (qs turns indices over its default arrayLimit of 20 into object keys)", async () => {
+    const params = {
+      mode: "payment" as const,
+      line_items: Array.from({ length: 25 }, (_, i) => ({ quantity: 1, price_data: { currency: "eur", unit_amount: 100 + i, product_data: { name: `Sticker ${i}` } } })),
+      success_url: "https://gatecrash.test/paid",
+    };
+    await stripe.checkout.sessions.create(params);
+    const parsed = parseFormBody(bodies.at(-1) as string);
+    expect(Array.isArray(parsed.line_items)).toBe(true);
+    expect(parsed).toEqual(asWireStrings(params));
+  });
 });
 
 describe("parseFormBody on its own", () => {
   it("reads `[]` appends and percent-encoded brackets", () => {
     expect(parseFormBody("expand[]=a&expand[]=b&metadata%5Bk%5D=v+w")).toEqual({ expand: ["a", "b"], metadata: { k: "v w" } });
+  });
+
+  it("reads a query string the same way", async () => {
+    const { parseFormQuery } = await import("./form");
+    expect(parseFormQuery("?expand[]=payment_intent&limit=3")).toEqual({ expand: ["payment_intent"], limit: "3" });
   });
 
   it("orders array elements by index", () => {

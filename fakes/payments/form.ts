@@ -1,5 +1,10 @@
 // Parses Stripe-style form bodies and query strings, where nesting lives in the keys:
 // `line_items[0][price_data][unit_amount]=500`, `metadata[entry]=e1`, `expand[]=payment_intent`.
+// The nesting itself is the `qs` package's (the bracket syntax it defines is the one the stripe SDK writes);
+// this module only refuses, before qs sees them, the names a real payments API would answer 400 to, naming the
+// parameter, instead of letting qs quietly reshape them (a value and nested values under one name, unbalanced
+// brackets, prototype names, too deep, too many).
+import qs from "qs";
 import { invalidRequest } from "./errors";
 
 export type FormValue = string | FormValue[] | FormObject;
@@ -10,12 +15,9 @@ export interface FormObject {
 const MAX_PAIRS = 2000;
 const MAX_DEPTH = 8;
 const MAX_INDEX = 9999;
-// Assigning these as plain keys would touch the prototype chain of the result.
 const FORBIDDEN_SEGMENTS = new Set(["__proto__", "prototype", "constructor"]);
 const KEY_SHAPE = /^([^[\]]+)((?:\[[^[\]]*\])*)$/;
 const ARRAY_INDEX = /^\d+$/;
-
-type Node = { kind: "leaf"; value: string } | { kind: "branch"; children: Map<string, Node>; pushed: number };
 
 function badKey(key: string, why: string): Error {
   return invalidRequest(`Invalid parameter name ${JSON.stringify(key)}: ${why}.`, {
@@ -24,7 +26,7 @@ function badKey(key: string, why: string): Error {
   });
 }
 
-function splitKey(key: string): string[] {
+function segmentsOf(key: string): string[] {
   const match = KEY_SHAPE.exec(key);
   if (!match) throw badKey(key, "brackets must be balanced, as in a[b][0]");
   const segments = [match[1]];
@@ -35,62 +37,49 @@ function splitKey(key: string): string[] {
     if (segment === "" && index !== segments.length - 1) throw badKey(key, "[] may only come last");
     if (ARRAY_INDEX.test(segment) && Number(segment) > MAX_INDEX) throw badKey(key, "array index too large");
   }
+  if (ARRAY_INDEX.test(segments[0])) throw invalidRequest("Parameter names must not be bare numbers.");
   return segments;
 }
 
-function insert(root: Node & { kind: "branch" }, key: string, value: string): void {
-  const segments = splitKey(key);
-  let branch = root;
-  for (const [index, rawSegment] of segments.entries()) {
-    // `a[]` appends: give each pushed value the next free position.
-    const segment = rawSegment === "" ? String(branch.pushed++) : rawSegment;
-    const isLast = index === segments.length - 1;
-    const existing = branch.children.get(segment);
-    if (isLast) {
-      if (existing?.kind === "branch") throw badKey(key, "a value and nested values share one name");
-      branch.children.set(segment, { kind: "leaf", value });
-      return;
-    }
-    if (existing?.kind === "leaf") throw badKey(key, "a value and nested values share one name");
-    if (existing) {
-      branch = existing;
-    } else {
-      const child: Node & { kind: "branch" } = { kind: "branch", children: new Map(), pushed: 0 };
-      branch.children.set(segment, child);
-      branch = child;
-    }
-  }
-}
-
-function materialize(node: Node): FormValue {
-  if (node.kind === "leaf") return node.value;
-  const keys = [...node.children.keys()];
-  if (keys.every((key) => ARRAY_INDEX.test(key))) {
-    // Indices give the order; gaps are closed, as a form cannot express holes usefully.
-    return keys
-      .sort((a, b) => Number(a) - Number(b))
-      .map((key) => materialize(node.children.get(key) as Node));
-  }
-  const result: FormObject = {};
-  for (const key of keys) result[key] = materialize(node.children.get(key) as Node);
-  return result;
-}
-
-export function parseFormPairs(pairs: Iterable<[string, string]>): FormObject {
-  const root: Node & { kind: "branch" } = { kind: "branch", children: new Map(), pushed: 0 };
+/** Refuses names that qs would merge into something the sender did not write. */
+function checkNames(pairs: Iterable<[string, string]>): void {
+  const leaves = new Set<string>();
+  const branches = new Set<string>();
   let count = 0;
-  for (const [key, value] of pairs) {
+  for (const [key] of pairs) {
     if (++count > MAX_PAIRS) throw invalidRequest(`Too many parameters (more than ${MAX_PAIRS}).`);
     if (key === "") continue;
-    insert(root, key, value);
+    const segments = segmentsOf(key);
+    // `a[]` appends: the list is a branch, never a leaf
+    const leafPath = segments.at(-1) === "" ? null : segments.join("\u0000");
+    for (let i = 1; i < segments.length; i++) {
+      const prefix = segments.slice(0, i).join("\u0000");
+      if (leaves.has(prefix)) throw badKey(key, "a value and nested values share one name");
+      branches.add(prefix);
+    }
+    if (leafPath !== null) {
+      if (branches.has(leafPath)) throw badKey(key, "a value and nested values share one name");
+      leaves.add(leafPath);
+    }
   }
-  if (root.children.size === 0) return {};
-  const result = materialize(root);
-  // Top-level keys that are all digits would come out as an array; Stripe bodies never mean that.
-  if (Array.isArray(result)) throw invalidRequest("Parameter names must not be bare numbers.");
-  return result as FormObject;
 }
 
+const QS_OPTIONS = {
+  depth: MAX_DEPTH,
+  strictDepth: true,
+  arrayLimit: MAX_INDEX,
+  parameterLimit: MAX_PAIRS,
+  allowPrototypes: false,
+  // the names were checked above; a repeated plain name keeps its last value, as form posts mean
+  duplicates: "last",
+} satisfies qs.IParseOptions;
+
 export function parseFormBody(body: string): FormObject {
-  return parseFormPairs(new URLSearchParams(body));
+  checkNames(new URLSearchParams(body));
+  return qs.parse(body, QS_OPTIONS) as FormObject;
+}
+
+/** A query string (`?expand[]=x`), read the same way. */
+export function parseFormQuery(search: string): FormObject {
+  return parseFormBody(search.startsWith("?") ? search.slice(1) : search);
 }

@@ -1,15 +1,18 @@
+import { spawnSync } from "node:child_process";
+import { resolve } from "node:path";
 import { and, eq, like } from "drizzle-orm";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "~/db/client.server";
 import { ballots, competitions, outbox, resultsSnapshots, scores, scoresheets } from "~/db/schema";
 import { stopQueue } from "~/jobs/queue.server";
-import { payloadHash } from "~/results/canonical";
+import { legacyCanonicalJson, payloadHash, sha256Hex } from "~/results/canonical";
 import { computeStandings, publishedResults, verifySnapshot, type ResultsPayload } from "~/results/results.server";
 import * as organizeResults from "~/routes/organize.results";
 import * as recountJson from "~/routes/recount.json";
 import * as resultsCsv from "~/routes/results.csv";
 import * as resultsPage from "~/routes/results";
 import * as resultsTxt from "~/routes/results.txt";
+import * as resultsJson from "~/routes/results.json";
 import * as stageRoute from "~/routes/stage";
 import type { JuryStandings } from "~/scoring/jury";
 import { mixStandings } from "~/scoring/mix";
@@ -209,5 +212,50 @@ describe("previewing and publishing results", () => {
     const reveal = stage.data!.screens.filter((s): s is Extract<StageScreen, { kind: "reveal" }> => s.kind === "reveal");
     expect(reveal.map((s) => s.place)).toEqual([3, 2, 1]);
     expect(reveal[2].title).toBe(v1.payload.standings[0].title);
+  });
+});
+
+describe("the published hash, checked with a standard tool", () => {
+  // The canonicalize package's own command-line tool (an RFC 8785 implementation), run as a separate process
+  // on the served file: what anyone would do with `canonicalize < results.json | sha256sum`.
+  // (its package exports no subpaths, so the tool is found where npm installs its bin)
+  const cli = resolve("node_modules", "canonicalize", "bin", "canonicalize.js");
+  const jcs = (text: string) => {
+    const run = spawnSync(process.execPath, [cli], { input: text, encoding: "utf8" });
+    expect(run.status, run.stderr).toBe(0);
+    return run.stdout;
+  };
+
+  it("serves the payload whose RFC 8785 form hashes to the published SHA-256, with the scheme named", async () => {
+    const f = await scoredCompo();
+    const published = (await publish(f)).data!.published!;
+    const res = await (resultsJson.loader as (a: unknown) => Promise<Response>)(await routeArgs(request(`/e/${f.event.slug}/${f.slug}/results.json`), { eventSlug: f.event.slug, competitionSlug: f.slug }));
+    expect(res.headers.get("X-Results-Hash-Scheme")).toBe("rfc8785-sha256");
+    expect(res.headers.get("X-Results-SHA256")).toBe(published.sha256);
+    const body = await res.text();
+    expect(body).toContain("\n  "); // pretty-printed: the hash is over the canonical form, not over these bytes
+    expect(sha256Hex(jcs(body))).toBe(published.sha256);
+    const [row] = await db().select().from(resultsSnapshots).where(eq(resultsSnapshots.competitionId, f.competitionId));
+    expect(row.hashScheme).toBe("rfc8785-sha256");
+    // before publication there is nothing to serve
+    const g = await scoredCompo();
+    expect((await text(resultsJson.loader, g)).status).toBe(404);
+  });
+
+  it("keeps a version published under the earlier scheme verifiable by that scheme", async () => {
+    const f = await scoredCompo();
+    await publish(f);
+    const v1 = (await publishedResults(f.competitionId, 1))!;
+    // A version as the earlier code stored it: no scheme column written, its hash over gatecrash-json/1.
+    const payload = { ...v1.payload, version: 2, note: "stored before hash schemes were tagged" };
+    await db().insert(resultsSnapshots).values({ competitionId: f.competitionId, version: 2, payload, sha256: sha256Hex(legacyCanonicalJson(payload)), note: payload.note });
+    const old = (await publishedResults(f.competitionId, 2))!;
+    expect(old.hashScheme).toBe("gatecrash-json/1");
+    expect(verifySnapshot(old)).toBe(true);
+    expect(verifySnapshot({ ...old, sha256: "0".repeat(64) })).toBe(false);
+    const res = await (resultsJson.loader as (a: unknown) => Promise<Response>)(await routeArgs(request(`/e/${f.event.slug}/${f.slug}/results.json?version=2`), { eventSlug: f.event.slug, competitionSlug: f.slug }));
+    expect(res.headers.get("X-Results-Hash-Scheme")).toBe("gatecrash-json/1");
+    expect(verifySnapshot(v1)).toBe(true);
+    expect(v1.hashScheme).toBe("rfc8785-sha256");
   });
 });

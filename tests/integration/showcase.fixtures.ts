@@ -30,7 +30,6 @@ export async function makeCompo(opts: {
   votingOpensAt?: Date | null;
   votingClosesAt?: Date | null;
   juryWeightPct?: number;
-  stageFlashMode?: "dim" | "skip";
   /** Another compo of the same party: its event and organizer. */
   party?: Pick<CompoFixture, "event" | "organizer">;
   title?: string;
@@ -51,7 +50,6 @@ export async function makeCompo(opts: {
       blindJudging: opts.blind ?? true,
       juryWeightPct: opts.juryWeightPct ?? 50,
       juryMethod: "jury-raw",
-      stageFlashMode: opts.stageFlashMode ?? "dim",
       votingOpensAt: opts.votingOpensAt === undefined ? new Date(Date.now() - HOUR) : opts.votingOpensAt,
       votingClosesAt: opts.votingClosesAt === undefined ? new Date(Date.now() + HOUR) : opts.votingClosesAt,
     })

@@ -3,8 +3,6 @@ import { closeDb } from "~/db/client.server";
 import { stopQueue } from "~/jobs/queue.server";
 import * as showcaseRoute from "~/routes/showcase";
 import * as entryRoute from "~/routes/showcase.entry";
-import * as stageRoute from "~/routes/stage";
-import type { StageScreen } from "~/stage/screens";
 import type { ShowcaseEntry } from "~/showcase/showcase.server";
 import { callRoute } from "../support/routes";
 import { makeUser, request, sessionCookie } from "../support/users";
@@ -77,35 +75,5 @@ describe("the public showcase", () => {
     expect((await callRoute(showcaseRoute.loader, request("/x"), { eventSlug: f.event.slug, competitionSlug: f.slug })).status).toBe(404);
     await setCompetition(f.competitionId, { state: "draft" });
     expect((await callRoute(showcaseRoute.loader, request("/x"), { eventSlug: f.event.slug, competitionSlug: f.slug })).status).toBe(404);
-  });
-});
-
-describe("stage mode", () => {
-  it("is for organizers only and dims or skips flash-flagged entries as chosen", async () => {
-    const f = await makeCompo({ state: "judging", stageFlashMode: "dim" });
-    await addCheckRun(f.entries[0].uploadId, "pass");
-    await addCheckRun(f.entries[1].uploadId, "warn");
-    const params = { competitionId: f.competitionId };
-    const stranger = await sessionCookie(await makeUser());
-    expect((await callRoute(stageRoute.loader, request(`/stage/${f.competitionId}`, { cookie: stranger }), params)).status).toBe(404);
-    expect((await callRoute(stageRoute.loader, request(`/stage/${f.competitionId}`), params)).status).toBe(302);
-
-    const dim = await callRoute<{ screens: StageScreen[] }>(stageRoute.loader, request(`/stage/${f.competitionId}`, { cookie: f.organizerCookie }), params);
-    const kinds = dim.data!.screens.map((s) => s.kind);
-    expect(kinds).toEqual(["intro", "entry", "entry", "entry", "vote", "end"]); // no reveal before publishing
-    const entriesShown = dim.data!.screens.filter((s): s is Extract<StageScreen, { kind: "entry" }> => s.kind === "entry");
-    expect(entriesShown.find((s) => s.title === f.entries[1].title)!.dimmed).toBe(true);
-    expect(entriesShown.find((s) => s.title === f.entries[0].title)!.dimmed).toBe(false);
-    // Unmeasured counts as flagged: it is not known to be safe.
-    expect(entriesShown.find((s) => s.title === f.entries[2].title)!.dimmed).toBe(true);
-    const vote = dim.data!.screens.find((s) => s.kind === "vote") as Extract<StageScreen, { kind: "vote" }>;
-    expect(vote.url).toMatch(new RegExp(`/e/${f.event.slug}/${f.slug}/vote$`));
-    expect(vote.qrSvg).toMatch(/^<svg[\s\S]*<\/svg>\s*$/);
-
-    await setCompetition(f.competitionId, { stageFlashMode: "skip" });
-    const skip = await callRoute<{ screens: StageScreen[] }>(stageRoute.loader, request(`/stage/${f.competitionId}`, { cookie: f.organizerCookie }), params);
-    const shown = skip.data!.screens.filter((s) => s.kind === "entry").map((s) => (s as { title: string }).title);
-    expect(shown).toEqual([f.entries[0].title]);
-    expect(skip.data!.screens[0]).toMatchObject({ kind: "intro", entryCount: 1, skipped: 2 });
   });
 });

@@ -1,0 +1,1 @@
+ALTER TABLE "results_snapshots" ADD COLUMN "hash_scheme" text DEFAULT 'gatecrash-json/1' NOT NULL;
