@@ -121,6 +121,11 @@ export async function main(argv: string[]): Promise<number> {
   }
 }
 
+/** The command line: run, then exit with main's code (the compiled CLI's launcher, scripts/cli.mjs, calls this). */
+export async function cli(argv: string[]): Promise<never> {
+  process.exit(await main(argv));
+}
+
 if (process.argv[1] && resolve(process.argv[1]) === resolve("scripts/check.ts")) {
-  process.exit(await main(process.argv.slice(2)));
+  await cli(process.argv.slice(2));
 }

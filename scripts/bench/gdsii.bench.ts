@@ -8,8 +8,15 @@ import { promisify } from "node:util";
 import { generateDemoLayout } from "../../app/gdsii/demo-layout";
 import { readLayout } from "../../app/gdsii/reader";
 import { readLayoutFile } from "../../app/gdsii/reader.server";
+import { DEMO_RULESET, type Ruleset } from "../../app/rules/ruleset";
 
 const run = promisify(execFile);
+
+/** The demo ruleset with two big square dies (9 × 9 and 3 × 3 tiles), room for 200k and 20k placed cells. */
+const BENCH_RULESET: Ruleset = {
+  ...DEMO_RULESET,
+  tile: { ...DEMO_RULESET.tile, maxTiles: 81, allowedShapes: [{ name: "block-9", cols: 9, rows: 9 }, { name: "block-3", cols: 3, rows: 3 }] },
+};
 const REPO = resolve(new URL("../..", import.meta.url).pathname);
 const READER = join(REPO, "app/gdsii/reader.server.ts");
 
@@ -60,8 +67,8 @@ async function bestOf<T>(n: number, f: () => Promise<T> | T): Promise<{ ms: numb
 export async function benchGdsii(): Promise<void> {
   const dir = mkdtempSync(join(tmpdir(), "gc-bench-gdsii-"));
   try {
-    const big = generateDemoLayout({ shape: "9x9", flipFlops: 10_000, logicCells: 190_000, wiresPerCell: 2, seed: 11 });
-    const small = generateDemoLayout({ shape: "3x3", flipFlops: 1_000, logicCells: 19_000, wiresPerCell: 2, seed: 11 });
+    const big = generateDemoLayout({ ruleset: BENCH_RULESET, shape: "block-9", flipFlops: 10_000, logicCells: 190_000, wiresPerCell: 2, seed: 11 });
+    const small = generateDemoLayout({ ruleset: BENCH_RULESET, shape: "block-3", flipFlops: 1_000, logicCells: 19_000, wiresPerCell: 2, seed: 11 });
     const bigPath = join(dir, "big.gds");
     const smallPath = join(dir, "small.gds");
     writeFileSync(bigPath, big.bytes);
