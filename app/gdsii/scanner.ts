@@ -102,8 +102,10 @@ export class RecordScanner {
   /** Walks the complete records in buf[start, end); `base` is the file offset of buf[0]. */
   scan(buf: Uint8Array, view: DataView, start: number, end: number, base: number): number {
     let pos = start;
+    const maxRecords = this.limits.maxRecords;
+    let records = this.records;
     while (!this.ended && pos + 4 <= end) {
-      const len = view.getUint16(pos);
+      const len = (buf[pos] << 8) | buf[pos + 1];
       if (len < 4 || (len & 1) !== 0) {
         throw new GdsiiError(
           len === 0
@@ -113,9 +115,11 @@ export class RecordScanner {
         );
       }
       if (pos + len > end) break;
-      if (++this.records > this.limits.maxRecords) {
-        throw new GdsiiError(`the file holds more than ${this.limits.maxRecords} records, the limit`, base + pos);
+      if (++records > maxRecords) {
+        this.records = records;
+        throw new GdsiiError(`the file holds more than ${maxRecords} records, the limit`, base + pos);
       }
+      this.records = records;
       this.record(buf, view, pos, len, base);
       pos += len;
     }
@@ -331,8 +335,7 @@ export class RecordScanner {
   private endElement(at: number): void {
     const type = this.element;
     if (type === NO_ELEMENT) throw new GdsiiError("ENDEL without an element", at);
-    const name = recordTypeName(type);
-    if (this.xyCount < 0) throw new GdsiiError(`${name} element without XY`, this.elementAt);
+    if (this.xyCount < 0) throw new GdsiiError(`${recordTypeName(type)} element without XY`, this.elementAt);
     this.element = NO_ELEMENT;
     const cur = this.current!;
     if (type === 0x0c /* TEXT */) {
@@ -349,11 +352,14 @@ export class RecordScanner {
       return;
     }
     if (type !== 0x0a /* SREF */ && type !== 0x0b /* AREF */) return;
-    if (this.sname < 0) throw new GdsiiError(`${name} element without SNAME`, this.elementAt);
+    if (this.sname < 0) throw new GdsiiError(`${recordTypeName(type)} element without SNAME`, this.elementAt);
     const xy = this.xy;
     let count = 1;
-    const origins = emptyBox();
-    addPoint(origins, xy[0], xy[1]);
+    // The box of the placement origins, kept in four numbers (no array per placement).
+    let ox0 = xy[0];
+    let oy0 = xy[1];
+    let ox1 = ox0;
+    let oy1 = oy0;
     if (type === 0x0b /* AREF */) {
       if (this.cols === 0) throw new GdsiiError("AREF element without COLROW", this.elementAt);
       const c = this.cols;
@@ -364,9 +370,12 @@ export class RecordScanner {
       const cy = ((xy[3] - xy[1]) / c) * (c - 1);
       const rx = ((xy[4] - xy[0]) / r) * (r - 1);
       const ry = ((xy[5] - xy[1]) / r) * (r - 1);
-      addPoint(origins, xy[0] + cx, xy[1] + cy);
-      addPoint(origins, xy[0] + rx, xy[1] + ry);
-      addPoint(origins, xy[0] + cx + rx, xy[1] + cy + ry);
+      for (const [x, y] of [[xy[0] + cx, xy[1] + cy], [xy[0] + rx, xy[1] + ry], [xy[0] + cx + rx, xy[1] + cy + ry]]) {
+        if (x < ox0) ox0 = x;
+        if (y < oy0) oy0 = y;
+        if (x > ox1) ox1 = x;
+        if (y > oy1) oy1 = y;
+      }
     }
     const angle = ((this.angle % 360) + 360) % 360;
     // Numeric keys for the Manhattan orientations at unit magnification, which are nearly all placements.
@@ -386,16 +395,16 @@ export class RecordScanner {
     }
     klass.count += count;
     const o = klass.origins;
-    if (origins[0] < o[0]) o[0] = origins[0];
-    if (origins[1] < o[1]) o[1] = origins[1];
-    if (origins[2] > o[2]) o[2] = origins[2];
-    if (origins[3] > o[3]) o[3] = origins[3];
+    if (ox0 < o[0]) o[0] = ox0;
+    if (oy0 < o[1]) o[1] = oy0;
+    if (ox1 > o[2]) o[2] = ox1;
+    if (oy1 > o[3]) o[3] = oy1;
     const col = this.collected;
     if (col) {
       if (col.count.length < this.collectLimit) {
         col.parent.push(this.currentIndex);
         col.klass.push(klass);
-        col.origins.push(origins[0], origins[1], origins[2], origins[3]);
+        col.origins.push(ox0, oy0, ox1, oy1);
         col.count.push(count);
       } else cur.droppedPlacements++;
     }
