@@ -120,7 +120,46 @@ export class RecordScanner {
         throw new GdsiiError(`the file holds more than ${maxRecords} records, the limit`, base + pos);
       }
       this.records = records;
-      this.record(buf, view, pos, len, base);
+      // The records of a placed design's paths and placements, by far the most common ones, are handled here
+      // without a call to record(): the same checks and fields as its cases. Everything else, and anything before
+      // the header, goes there.
+      const type = this.sawHeader ? buf[pos + 2] : -1;
+      const size = len - 4;
+      const at = base + pos;
+      switch (type) {
+        case 0x0d: // LAYER
+          if (size < 2) need(size, 2, "LAYER", at);
+          this.layer = (buf[pos + 4] << 8) | buf[pos + 5];
+          break;
+        case 0x0e: // DATATYPE
+          if (size < 2) need(size, 2, "DATATYPE", at);
+          this.datatype = (buf[pos + 4] << 8) | buf[pos + 5];
+          break;
+        case 0x21: // PATHTYPE
+          if (size < 2) need(size, 2, "PATHTYPE", at);
+          this.pathtype = view.getInt16(pos + 4);
+          break;
+        case 0x0f: // WIDTH
+          if (size < 4) need(size, 4, "WIDTH", at);
+          this.width = Math.abs(view.getInt32(pos + 4)); // negative = absolute width; same extent here
+          break;
+        case 0x10: // XY
+          this.readXy(view, pos + 4, size, at);
+          break;
+        case 0x11: // ENDEL
+          this.endElement(at);
+          break;
+        case 0x09: // PATH
+        case 0x0a: // SREF
+          this.startElement(type, at);
+          break;
+        case 0x12: // SNAME
+          this.inElement("SNAME", at);
+          this.sname = this.lookupName(buf, pos + 4, size, at);
+          break;
+        default:
+          this.record(buf, view, pos, len, base);
+      }
       pos += len;
     }
     return this.ended ? end : pos;
@@ -136,7 +175,8 @@ export class RecordScanner {
       this.sawHeader = true;
       return;
     }
-    // Literal case labels let V8 compile a jump table; the names are in the comments and in records.ts.
+    // Literal case labels let V8 compile a jump table; the names are in the comments and in records.ts. The most
+    // common records (LAYER, DATATYPE, WIDTH, PATHTYPE, XY, ENDEL, PATH, SREF, SNAME) are handled in scan().
     switch (type) {
       case 0x02: // LIBNAME
         this.libName = latin1(buf, data, size);
@@ -166,32 +206,17 @@ export class RecordScanner {
         this.ended = true;
         return;
       case 0x08: // BOUNDARY
-      case 0x09: // PATH
-      case 0x0a: // SREF
       case 0x0b: // AREF
       case 0x0c: // TEXT
       case 0x15: // NODE
       case 0x2d: // BOX
         this.startElement(type, at);
         return;
-      case 0x0d: // LAYER
-        need(size, 2, "LAYER", at);
-        this.layer = view.getUint16(data);
-        return;
-      case 0x0e: // DATATYPE
       case 0x16: // TEXTTYPE
       case 0x2e: // BOXTYPE
       case 0x2a: // NODETYPE
         need(size, 2, recordTypeName(type), at);
         this.datatype = view.getUint16(data);
-        return;
-      case 0x0f: // WIDTH
-        need(size, 4, "WIDTH", at);
-        this.width = Math.abs(view.getInt32(data)); // negative = absolute width; same extent here
-        return;
-      case 0x21: // PATHTYPE
-        need(size, 2, "PATHTYPE", at);
-        this.pathtype = view.getInt16(data);
         return;
       case 0x30: // BGNEXTN
         need(size, 4, "BGNEXTN", at);
@@ -200,10 +225,6 @@ export class RecordScanner {
       case 0x31: // ENDEXTN
         need(size, 4, "ENDEXTN", at);
         this.endExtn = view.getInt32(data);
-        return;
-      case 0x12: // SNAME
-        this.inElement("SNAME", at);
-        this.sname = this.lookupName(buf, data, size, at);
         return;
       case 0x1a: // STRANS
         need(size, 2, "STRANS", at);
@@ -230,12 +251,6 @@ export class RecordScanner {
       case 0x19: // STRING
         this.inElement("STRING", at);
         this.text = latin1(buf, data, size);
-        return;
-      case 0x10: // XY
-        this.readXy(view, data, size, at);
-        return;
-      case 0x11: // ENDEL
-        this.endElement(at);
         return;
       default:
         if (type > LAST_RECORD_TYPE) {
