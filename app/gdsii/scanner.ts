@@ -68,7 +68,9 @@ export class RecordScanner {
   classCount = 0;
   readonly collected: CollectedPlacements | null;
 
-  private readonly names = new Map<number, number | number[]>();
+  /** Open-addressing hash table of structure names: slot → structure index + 1 (0: empty), linear probing. */
+  private slots = new Int32Array(256);
+  private readonly nameHashes: number[] = [];
   private readonly nameBytes: Uint8Array[] = [];
   private current: StructureState | null = null;
   private currentIndex = -1;
@@ -432,27 +434,39 @@ export class RecordScanner {
     if (n === 0) throw new GdsiiError("a structure name is empty", at);
     let h = FNV_OFFSET;
     for (let i = 0; i < n; i++) h = Math.imul(h ^ buf[data + i], 0x01000193);
-    const hit = this.names.get(h);
-    if (hit !== undefined) {
-      if (typeof hit === "number") {
-        if (sameBytes(this.nameBytes[hit], buf, data, n)) return this.touch(hit, at);
-      } else {
-        for (const idx of hit) if (sameBytes(this.nameBytes[idx], buf, data, n)) return this.touch(idx, at);
-      }
+    const slots = this.slots;
+    const mask = slots.length - 1;
+    let slot = h & mask;
+    for (let v = slots[slot]; v !== 0; v = slots[slot]) {
+      const idx = v - 1;
+      if (this.nameHashes[idx] === h && sameBytes(this.nameBytes[idx], buf, data, n)) return this.touch(idx, at);
+      slot = (slot + 1) & mask;
     }
     if (this.structures.length >= this.limits.maxStructures) {
       throw new GdsiiError(`more than ${this.limits.maxStructures} structure names, the limit`, at);
     }
     const idx = this.structures.length;
     this.nameBytes.push(buf.slice(data, data + n));
+    this.nameHashes.push(h);
     const s = placeholder(-1);
     s.name = latin1(buf, data, n);
     s.firstReferencedAt = this.element === NO_ELEMENT ? -1 : at;
     this.structures.push(s);
-    if (hit === undefined) this.names.set(h, idx);
-    else if (typeof hit === "number") this.names.set(h, [hit, idx]);
-    else hit.push(idx);
+    slots[slot] = idx + 1;
+    // At most half full, so a probe ends soon.
+    if (2 * this.structures.length > slots.length) this.growSlots();
     return idx;
+  }
+
+  private growSlots(): void {
+    const slots = new Int32Array(this.slots.length * 2);
+    const mask = slots.length - 1;
+    for (let idx = 0; idx < this.nameHashes.length; idx++) {
+      let slot = this.nameHashes[idx] & mask;
+      while (slots[slot] !== 0) slot = (slot + 1) & mask;
+      slots[slot] = idx + 1;
+    }
+    this.slots = slots;
   }
 
   private touch(idx: number, at: number): number {
