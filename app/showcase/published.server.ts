@@ -20,7 +20,8 @@ export interface PublishedShowcase {
 }
 
 const KEEP = 200; // compos kept per process; a party has a handful
-const kept = new Map<string, PublishedShowcase>();
+/** Per compo: the version and its showcase, as a promise so that requests arriving together build it once. */
+const kept = new Map<string, { version: string; entries: Promise<ShowcaseEntry[]> }>();
 
 /**
  * md5 over the rows (as PostgreSQL prints them) that showcaseEntries reads, in a stable order. A check run's
@@ -60,12 +61,13 @@ export async function publishedShowcase(c: PublicCompetition): Promise<Published
     // Most recently used last, so the oldest compo is the one dropped.
     kept.delete(c.id);
     kept.set(c.id, hit);
-    return hit;
+    return { version, entries: await hit.entries };
   }
-  const entries = await showcaseEntries(c);
-  const made = { version, entries };
+  const made = { version, entries: showcaseEntries(c) };
   kept.delete(c.id);
   kept.set(c.id, made);
   if (kept.size > KEEP) kept.delete(kept.keys().next().value!);
-  return made;
+  // A build that failed is not kept: the next request tries again.
+  made.entries.catch(() => kept.get(c.id) === made && kept.delete(c.id));
+  return { version, entries: await made.entries };
 }
