@@ -99,16 +99,20 @@ export async function benchLoad(): Promise<void> {
     const bare = "/check-your-mail";
 
     const duration = Number(process.env.LOAD_SECONDS ?? 8);
+    // Bare page and showcase in turn, twice each, the better run of each counted: other work on a shared machine
+    // then weighs on both alike.
     const bareRun = await cannon({ url: base + bare, connections: 20, duration });
-    const showcaseRun = await cannon({ url: base + showcase, connections: 20, duration });
+    const showcaseRun1 = await cannon({ url: base + showcase, connections: 20, duration });
     // Browsers coming back to the showcase they hold: the ETag it was served with, answered 304 while it is current.
     const etag = (await fetch(base + showcase)).headers.get("etag");
     const revisitRun = etag
       ? await cannon({ url: base + showcase, connections: 20, duration, headers: { "if-none-match": etag }, requests: [{ method: "GET", onResponse: ((t) => (status: number, body: string) => t(status, body))(tally("showcase revisited (304)")) }] })
       : null;
     const bareRun2 = await cannon({ url: base + bare, connections: 20, duration });
+    const showcaseRun2 = await cannon({ url: base + showcase, connections: 20, duration });
+    const showcaseRun = showcaseRun1.requests.average >= showcaseRun2.requests.average ? showcaseRun1 : showcaseRun2;
     const ref = bareRun.requests.average >= bareRun2.requests.average ? bareRun : bareRun2;
-    console.log(`bare React Router page ${bare}: ${ref.requests.average.toFixed(0)} req/s, p50 ${ref.latency.p50} ms, p95 ${p95(ref)} ms, p99 ${ref.latency.p99} ms (the better of two runs, before and after)`);
+    console.log(`bare React Router page ${bare}: ${ref.requests.average.toFixed(0)} req/s, p50 ${ref.latency.p50} ms, p95 ${p95(ref)} ms, p99 ${ref.latency.p99} ms (the better of two runs, taken in turn with the showcase's two)`);
     print("showcase page", showcaseRun, ref);
     if (revisitRun) print("showcase revisited (304)", revisitRun, ref);
     else console.log("showcase revisited: the showcase had no ETag");
