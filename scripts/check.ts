@@ -100,7 +100,7 @@ export async function main(argv: string[]): Promise<number> {
     if (!bundlePath && !layoutPath && !videoPath) throw new InputError("nothing to check: give --bundle, --layout and/or --video");
     const frames = args.frames === undefined ? undefined : Number(args.frames);
     if (frames !== undefined && (!Number.isInteger(frames) || frames < 1 || frames > 600)) throw new InputError("--frames must be a whole number from 1 to 600");
-    const result = await runPipeline({ ruleset, workDir, bundlePath, layoutPath, videoPath, simulate: args.simulate, frames, encode: false });
+    const result = await runPipeline({ ruleset, workDir, bundlePath, layoutPath, videoPath, simulate: args.simulate, frames, encode: false, pictures: false });
     const unreadable = result.findings.find((f) => f.rule === "layout.read" || f.rule === "intake.not-an-archive" || f.rule === "intake.corrupt" || f.rule === "capture.video.unreadable");
     if (args.json) console.log(JSON.stringify(toJson(result), null, 2));
     else printReport(result);
@@ -121,6 +121,11 @@ export async function main(argv: string[]): Promise<number> {
   }
 }
 
+/** The command line: run, then exit with main's code (the compiled CLI's launcher, scripts/cli.mjs, calls this). */
+export async function cli(argv: string[]): Promise<never> {
+  process.exit(await main(argv));
+}
+
 if (process.argv[1] && resolve(process.argv[1]) === resolve("scripts/check.ts")) {
-  process.exit(await main(process.argv.slice(2)));
+  await cli(process.argv.slice(2));
 }

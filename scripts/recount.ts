@@ -52,10 +52,13 @@ export function runRecount(args: readonly string[], readText: (path: string) => 
   }
 }
 
-const invokedDirectly = process.argv[1] !== undefined && import.meta.url === pathToFileURL(resolve(process.argv[1])).href;
-if (invokedDirectly) {
-  const result = runRecount(process.argv.slice(2));
+/** The command line (the compiled CLI's launcher, scripts/cli.mjs, calls this). */
+export function cli(argv: readonly string[]): void {
+  const result = runRecount(argv);
   process.stdout.write(result.stdout);
   process.stderr.write(result.stderr);
   process.exitCode = result.code;
 }
+
+const invokedDirectly = process.argv[1] !== undefined && import.meta.url === pathToFileURL(resolve(process.argv[1])).href;
+if (invokedDirectly) cli(process.argv.slice(2));

@@ -67,6 +67,8 @@ function securityHeadersOnEverything(_req: Request, res: Response, next: NextFun
   onHeaders(res, function fill() {
     const headers = new Headers();
     applySecurityHeaders(headers, newNonce());
+    // Never a policy on a 304: the page the client keeps has its own nonce (see app/security/middleware.server.ts).
+    if (res.statusCode === 304) headers.delete("Content-Security-Policy");
     for (const [name, value] of headers) if (!res.hasHeader(name)) res.setHeader(name, value);
   });
   next();

@@ -40,6 +40,8 @@ export interface PipelineInput {
   simulate: boolean;
   frames?: number;
   encode?: boolean;
+  /** Draw the layout picture and thumbnail as artifacts (default true; `npm run check` prints no artifacts). */
+  pictures?: boolean;
   /** A step starts. */
   onStep?: (step: CheckStep) => Promise<void> | void;
   /** A step (or, for the reference capture, a first part of it) has results. Calls come one at a time, in order. */
@@ -214,14 +216,17 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
       const matched = against ? layoutMatchesSource(against, checked.figures, ruleset) : [];
       const skipped = against ? [] : [{ step: "layout" as const, reason: "no synthesized source to hold the layout against (flip-flops, ports)" }];
       const svgPath = join(workDir, "layout.svg");
-      writeFileSync(svgPath, layoutPictureSvg(summary, ruleset, { dieUm: checked.figures.dieUm, title: summary.topCell ?? "layout" }));
       const pngPath = join(workDir, "layout.png");
-      writeFileSync(pngPath, layoutThumbnailPng(summary, ruleset, { dieUm: checked.figures.dieUm, widthPx: 480 }));
+      const pictures = input.pictures ?? true;
+      if (pictures) {
+        writeFileSync(svgPath, layoutPictureSvg(summary, ruleset, { dieUm: checked.figures.dieUm, title: summary.topCell ?? "layout" }));
+        writeFileSync(pngPath, layoutThumbnailPng(summary, ruleset, { dieUm: checked.figures.dieUm, widthPx: 480 }));
+      }
       return {
         findings: [...checked.findings, ...matched],
         skipped,
         figures: { layout: { ...checked.figures, topCells: summary.topCells, labels: summary.labels, instances: summary.instances, layers: summary.layers } },
-        artifacts: [...artifact("layout-svg", svgPath), ...artifact("layout-png", pngPath)],
+        artifacts: pictures ? [...artifact("layout-svg", svgPath), ...artifact("layout-png", pngPath)] : [],
       };
     });
   } else {

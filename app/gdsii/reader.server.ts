@@ -3,6 +3,7 @@ import { open } from "node:fs/promises";
 import { createGunzip } from "node:zlib";
 import { GdsiiError } from "./errors";
 import { LayoutReader } from "./reader";
+import { MAX_RECORD_BYTES } from "./records";
 import { DEFAULT_READ_LIMITS, type LayoutSummary, type ReadOptions } from "./summary";
 
 const CHUNK_BYTES = 4 * 1024 * 1024;
@@ -24,15 +25,21 @@ export async function readLayoutFile(path: string, opts: ReadOptions = {}): Prom
       throw new GdsiiError(`the layout file is ${size} bytes, more than the limit of ${maxBytes} bytes`);
     }
     const reader = new LayoutReader(opts);
-    const chunk = new Uint8Array(Math.min(CHUNK_BYTES, Math.max(size, 1)));
+    // One buffer for the whole file: each read lands after the partial record the last scan left, which is
+    // first moved to the front (a record is at most 64 KiB), so no chunk is ever copied whole.
+    const buf = new Uint8Array(Math.min(CHUNK_BYTES, Math.max(size, 1)) + MAX_RECORD_BYTES + 4);
+    const view = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
+    let kept = 0;
     let total = 0;
     for (;;) {
-      const { bytesRead } = await file.read(chunk, 0, chunk.length, null);
+      const { bytesRead } = await file.read(buf, kept, buf.length - kept, null);
       if (bytesRead === 0) break;
       total += bytesRead;
       if (total > maxBytes) throw new GdsiiError(`the layout file grew past the limit of ${maxBytes} bytes while being read`);
-      // The reader copies only the partial record it keeps, so the chunk buffer can be reused.
-      reader.push(chunk.subarray(0, bytesRead));
+      const length = kept + bytesRead;
+      const used = reader.scanOwned(buf, view, length);
+      kept = length - used;
+      buf.copyWithin(0, used, length);
     }
     return reader.finish();
   } finally {

@@ -204,3 +204,20 @@ describe("malformed layouts give a GdsiiError", () => {
     );
   });
 });
+
+describe("many structure names", () => {
+  it("keeps 2,000 names apart, including names that differ in one byte and names that are prefixes of others", () => {
+    // Gatecrash's own writer makes the file; the census per cell is known by construction: cell i placed (i % 5) + 1 times.
+    const names = Array.from({ length: 2000 }, (_, i) => (i % 2 ? `c${i}` : `c${i}_x`));
+    names.push("c1_", "c1_x_", "C1");
+    const leaves: GdsStructure[] = names.map((name) => ({ name, elements: [rect(1, 0, 0, 10, 10)] }));
+    const top: GdsStructure = {
+      name: "top",
+      elements: names.flatMap((cell, i) => Array.from({ length: (i % 5) + 1 }, (_, k) => ({ kind: "sref" as const, cell, x: 20 * i, y: 20 * k }))),
+    };
+    const summary = readLayout(writeLayout(lib([...leaves, top])));
+    expect(summary.topCell).toBe("top");
+    names.forEach((name, i) => expect(summary.instances[name], name).toBe((i % 5) + 1));
+    expect(Object.keys(summary.instances)).toHaveLength(names.length);
+  });
+});

@@ -35,6 +35,19 @@ export class LayoutReader {
     this.offset += chunk.length;
   }
 
+  /**
+   * Walks the complete records of buf[0, length) and returns how many bytes it used; the caller keeps the rest
+   * (at most one partial record) at the start of its buffer for the next call. For callers that own their
+   * buffer (a file read into it): nothing is copied. Not to be mixed with push().
+   */
+  scanOwned(buf: Uint8Array, view: DataView, length: number): number {
+    if (this.scanner.ended) return length;
+    const used = this.scanner.scan(buf, view, 0, length, this.offset);
+    this.offset += used;
+    this.carry = used < length ? buf.slice(used, length) : new Uint8Array(0);
+    return used;
+  }
+
   finish(): LayoutSummary {
     const s = this.scanner;
     if (!s.ended) {

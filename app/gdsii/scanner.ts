@@ -68,7 +68,9 @@ export class RecordScanner {
   classCount = 0;
   readonly collected: CollectedPlacements | null;
 
-  private readonly names = new Map<number, number | number[]>();
+  /** Open-addressing hash table of structure names: slot → structure index + 1 (0: empty), linear probing. */
+  private slots = new Int32Array(256);
+  private readonly nameHashes: number[] = [];
   private readonly nameBytes: Uint8Array[] = [];
   private current: StructureState | null = null;
   private currentIndex = -1;
@@ -102,8 +104,10 @@ export class RecordScanner {
   /** Walks the complete records in buf[start, end); `base` is the file offset of buf[0]. */
   scan(buf: Uint8Array, view: DataView, start: number, end: number, base: number): number {
     let pos = start;
+    const maxRecords = this.limits.maxRecords;
+    let records = this.records;
     while (!this.ended && pos + 4 <= end) {
-      const len = view.getUint16(pos);
+      const len = (buf[pos] << 8) | buf[pos + 1];
       if (len < 4 || (len & 1) !== 0) {
         throw new GdsiiError(
           len === 0
@@ -113,10 +117,51 @@ export class RecordScanner {
         );
       }
       if (pos + len > end) break;
-      if (++this.records > this.limits.maxRecords) {
-        throw new GdsiiError(`the file holds more than ${this.limits.maxRecords} records, the limit`, base + pos);
+      if (++records > maxRecords) {
+        this.records = records;
+        throw new GdsiiError(`the file holds more than ${maxRecords} records, the limit`, base + pos);
       }
-      this.record(buf, view, pos, len, base);
+      this.records = records;
+      // The records of a placed design's paths and placements, by far the most common ones, are handled here
+      // without a call to record(): the same checks and fields as its cases. Everything else, and anything before
+      // the header, goes there.
+      const type = this.sawHeader ? buf[pos + 2] : -1;
+      const size = len - 4;
+      const at = base + pos;
+      switch (type) {
+        case 0x0d: // LAYER
+          if (size < 2) need(size, 2, "LAYER", at);
+          this.layer = (buf[pos + 4] << 8) | buf[pos + 5];
+          break;
+        case 0x0e: // DATATYPE
+          if (size < 2) need(size, 2, "DATATYPE", at);
+          this.datatype = (buf[pos + 4] << 8) | buf[pos + 5];
+          break;
+        case 0x21: // PATHTYPE
+          if (size < 2) need(size, 2, "PATHTYPE", at);
+          this.pathtype = view.getInt16(pos + 4);
+          break;
+        case 0x0f: // WIDTH
+          if (size < 4) need(size, 4, "WIDTH", at);
+          this.width = Math.abs(view.getInt32(pos + 4)); // negative = absolute width; same extent here
+          break;
+        case 0x10: // XY
+          this.readXy(view, pos + 4, size, at);
+          break;
+        case 0x11: // ENDEL
+          this.endElement(at);
+          break;
+        case 0x09: // PATH
+        case 0x0a: // SREF
+          this.startElement(type, at);
+          break;
+        case 0x12: // SNAME
+          this.inElement("SNAME", at);
+          this.sname = this.lookupName(buf, pos + 4, size, at);
+          break;
+        default:
+          this.record(buf, view, pos, len, base);
+      }
       pos += len;
     }
     return this.ended ? end : pos;
@@ -132,7 +177,8 @@ export class RecordScanner {
       this.sawHeader = true;
       return;
     }
-    // Literal case labels let V8 compile a jump table; the names are in the comments and in records.ts.
+    // Literal case labels let V8 compile a jump table; the names are in the comments and in records.ts. The most
+    // common records (LAYER, DATATYPE, WIDTH, PATHTYPE, XY, ENDEL, PATH, SREF, SNAME) are handled in scan().
     switch (type) {
       case 0x02: // LIBNAME
         this.libName = latin1(buf, data, size);
@@ -162,32 +208,17 @@ export class RecordScanner {
         this.ended = true;
         return;
       case 0x08: // BOUNDARY
-      case 0x09: // PATH
-      case 0x0a: // SREF
       case 0x0b: // AREF
       case 0x0c: // TEXT
       case 0x15: // NODE
       case 0x2d: // BOX
         this.startElement(type, at);
         return;
-      case 0x0d: // LAYER
-        need(size, 2, "LAYER", at);
-        this.layer = view.getUint16(data);
-        return;
-      case 0x0e: // DATATYPE
       case 0x16: // TEXTTYPE
       case 0x2e: // BOXTYPE
       case 0x2a: // NODETYPE
         need(size, 2, recordTypeName(type), at);
         this.datatype = view.getUint16(data);
-        return;
-      case 0x0f: // WIDTH
-        need(size, 4, "WIDTH", at);
-        this.width = Math.abs(view.getInt32(data)); // negative = absolute width; same extent here
-        return;
-      case 0x21: // PATHTYPE
-        need(size, 2, "PATHTYPE", at);
-        this.pathtype = view.getInt16(data);
         return;
       case 0x30: // BGNEXTN
         need(size, 4, "BGNEXTN", at);
@@ -196,10 +227,6 @@ export class RecordScanner {
       case 0x31: // ENDEXTN
         need(size, 4, "ENDEXTN", at);
         this.endExtn = view.getInt32(data);
-        return;
-      case 0x12: // SNAME
-        this.inElement("SNAME", at);
-        this.sname = this.lookupName(buf, data, size, at);
         return;
       case 0x1a: // STRANS
         need(size, 2, "STRANS", at);
@@ -226,12 +253,6 @@ export class RecordScanner {
       case 0x19: // STRING
         this.inElement("STRING", at);
         this.text = latin1(buf, data, size);
-        return;
-      case 0x10: // XY
-        this.readXy(view, data, size, at);
-        return;
-      case 0x11: // ENDEL
-        this.endElement(at);
         return;
       default:
         if (type > LAST_RECORD_TYPE) {
@@ -331,8 +352,7 @@ export class RecordScanner {
   private endElement(at: number): void {
     const type = this.element;
     if (type === NO_ELEMENT) throw new GdsiiError("ENDEL without an element", at);
-    const name = recordTypeName(type);
-    if (this.xyCount < 0) throw new GdsiiError(`${name} element without XY`, this.elementAt);
+    if (this.xyCount < 0) throw new GdsiiError(`${recordTypeName(type)} element without XY`, this.elementAt);
     this.element = NO_ELEMENT;
     const cur = this.current!;
     if (type === 0x0c /* TEXT */) {
@@ -349,11 +369,14 @@ export class RecordScanner {
       return;
     }
     if (type !== 0x0a /* SREF */ && type !== 0x0b /* AREF */) return;
-    if (this.sname < 0) throw new GdsiiError(`${name} element without SNAME`, this.elementAt);
+    if (this.sname < 0) throw new GdsiiError(`${recordTypeName(type)} element without SNAME`, this.elementAt);
     const xy = this.xy;
     let count = 1;
-    const origins = emptyBox();
-    addPoint(origins, xy[0], xy[1]);
+    // The box of the placement origins, kept in four numbers (no array per placement).
+    let ox0 = xy[0];
+    let oy0 = xy[1];
+    let ox1 = ox0;
+    let oy1 = oy0;
     if (type === 0x0b /* AREF */) {
       if (this.cols === 0) throw new GdsiiError("AREF element without COLROW", this.elementAt);
       const c = this.cols;
@@ -364,9 +387,12 @@ export class RecordScanner {
       const cy = ((xy[3] - xy[1]) / c) * (c - 1);
       const rx = ((xy[4] - xy[0]) / r) * (r - 1);
       const ry = ((xy[5] - xy[1]) / r) * (r - 1);
-      addPoint(origins, xy[0] + cx, xy[1] + cy);
-      addPoint(origins, xy[0] + rx, xy[1] + ry);
-      addPoint(origins, xy[0] + cx + rx, xy[1] + cy + ry);
+      for (const [x, y] of [[xy[0] + cx, xy[1] + cy], [xy[0] + rx, xy[1] + ry], [xy[0] + cx + rx, xy[1] + cy + ry]]) {
+        if (x < ox0) ox0 = x;
+        if (y < oy0) oy0 = y;
+        if (x > ox1) ox1 = x;
+        if (y > oy1) oy1 = y;
+      }
     }
     const angle = ((this.angle % 360) + 360) % 360;
     // Numeric keys for the Manhattan orientations at unit magnification, which are nearly all placements.
@@ -386,16 +412,16 @@ export class RecordScanner {
     }
     klass.count += count;
     const o = klass.origins;
-    if (origins[0] < o[0]) o[0] = origins[0];
-    if (origins[1] < o[1]) o[1] = origins[1];
-    if (origins[2] > o[2]) o[2] = origins[2];
-    if (origins[3] > o[3]) o[3] = origins[3];
+    if (ox0 < o[0]) o[0] = ox0;
+    if (oy0 < o[1]) o[1] = oy0;
+    if (ox1 > o[2]) o[2] = ox1;
+    if (oy1 > o[3]) o[3] = oy1;
     const col = this.collected;
     if (col) {
       if (col.count.length < this.collectLimit) {
         col.parent.push(this.currentIndex);
         col.klass.push(klass);
-        col.origins.push(origins[0], origins[1], origins[2], origins[3]);
+        col.origins.push(ox0, oy0, ox1, oy1);
         col.count.push(count);
       } else cur.droppedPlacements++;
     }
@@ -408,27 +434,39 @@ export class RecordScanner {
     if (n === 0) throw new GdsiiError("a structure name is empty", at);
     let h = FNV_OFFSET;
     for (let i = 0; i < n; i++) h = Math.imul(h ^ buf[data + i], 0x01000193);
-    const hit = this.names.get(h);
-    if (hit !== undefined) {
-      if (typeof hit === "number") {
-        if (sameBytes(this.nameBytes[hit], buf, data, n)) return this.touch(hit, at);
-      } else {
-        for (const idx of hit) if (sameBytes(this.nameBytes[idx], buf, data, n)) return this.touch(idx, at);
-      }
+    const slots = this.slots;
+    const mask = slots.length - 1;
+    let slot = h & mask;
+    for (let v = slots[slot]; v !== 0; v = slots[slot]) {
+      const idx = v - 1;
+      if (this.nameHashes[idx] === h && sameBytes(this.nameBytes[idx], buf, data, n)) return this.touch(idx, at);
+      slot = (slot + 1) & mask;
     }
     if (this.structures.length >= this.limits.maxStructures) {
       throw new GdsiiError(`more than ${this.limits.maxStructures} structure names, the limit`, at);
     }
     const idx = this.structures.length;
     this.nameBytes.push(buf.slice(data, data + n));
+    this.nameHashes.push(h);
     const s = placeholder(-1);
     s.name = latin1(buf, data, n);
     s.firstReferencedAt = this.element === NO_ELEMENT ? -1 : at;
     this.structures.push(s);
-    if (hit === undefined) this.names.set(h, idx);
-    else if (typeof hit === "number") this.names.set(h, [hit, idx]);
-    else hit.push(idx);
+    slots[slot] = idx + 1;
+    // At most half full, so a probe ends soon.
+    if (2 * this.structures.length > slots.length) this.growSlots();
     return idx;
+  }
+
+  private growSlots(): void {
+    const slots = new Int32Array(this.slots.length * 2);
+    const mask = slots.length - 1;
+    for (let idx = 0; idx < this.nameHashes.length; idx++) {
+      let slot = this.nameHashes[idx] & mask;
+      while (slots[slot] !== 0) slot = (slot + 1) & mask;
+      slots[slot] = idx + 1;
+    }
+    this.slots = slots;
   }
 
   private touch(idx: number, at: number): number {

@@ -2,14 +2,17 @@ import { Link } from "react-router";
 import { AudioCaution, PlayerGate, type PlayerSource } from "~/components/PlayerGate";
 import { ShowcaseStats, VerdictPill } from "~/components/ShowcaseStats";
 import { absoluteUrl, publicCompetitionView, requireShowcase } from "~/showcase/page.server";
-import { showcaseEntry } from "~/showcase/showcase.server";
+import { publishedShowcase } from "~/showcase/published.server";
+import { markPublicPage } from "~/security/public-page.server";
 import type { Route } from "./+types/showcase.entry";
 import { data } from "react-router";
 
-export async function loader({ params }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const c = await requireShowcase(params);
-  const entry = await showcaseEntry(c, params.entryId);
+  const { version, entries } = await publishedShowcase(c);
+  const entry = entries.find((e) => e.id === params.entryId);
   if (!entry) throw data({ message: "This entry is not in the showcase." }, { status: 404 });
+  markPublicPage(context, version);
   return { competition: publicCompetitionView(c), entry, ogImage: absoluteUrl(entry.media.still ?? entry.media.firstFrame) };
 }
 

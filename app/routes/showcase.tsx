@@ -2,12 +2,14 @@ import { Link } from "react-router";
 import { StateBadge } from "~/components/StateBadge";
 import { VerdictPill } from "~/components/ShowcaseStats";
 import { absoluteUrl, publicCompetitionView, requireShowcase } from "~/showcase/page.server";
-import { showcaseEntries } from "~/showcase/showcase.server";
+import { publishedShowcase } from "~/showcase/published.server";
+import { markPublicPage } from "~/security/public-page.server";
 import type { Route } from "./+types/showcase";
 
-export async function loader({ params }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const c = await requireShowcase(params);
-  const list = await showcaseEntries(c);
+  const { version, entries: list } = await publishedShowcase(c);
+  markPublicPage(context, version);
   const cover = list.map((e) => e.media.still ?? e.media.firstFrame).find(Boolean) ?? null;
   return { competition: publicCompetitionView(c), entries: list, ogImage: absoluteUrl(cover) };
 }

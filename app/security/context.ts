@@ -8,3 +8,10 @@ export const nonceContext = createContext<string>("");
  * trusted proxy forwarded: TRUSTED_PROXIES); null where no such server runs (the Vite dev server).
  */
 export const clientAddressContext = createContext<string | null>(null);
+
+/**
+ * Set by a loader whose page is public and cacheable for this request (no session: the page is the same for every
+ * anonymous visitor): the version of what the page shows (e.g. the published showcase's). entry.server then gives
+ * the page an ETag, answers If-None-Match with 304 and renders each version once (app/security/public-page.server.ts).
+ */
+export const publicPageContext = createContext<string | null>(null);

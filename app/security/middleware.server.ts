@@ -26,6 +26,9 @@ export const securityHeaders: MiddlewareFunction<Response> = async ({ context },
   const ownPolicy = !/^text\/html/i.test(out.headers.get("content-type") ?? "") ? out.headers.get("Content-Security-Policy") : null;
   applySecurityHeaders(out.headers, nonce, { dev: import.meta.env.DEV });
   if (ownPolicy) out.headers.set("Content-Security-Policy", ownPolicy);
+  // A 304 (a public page the browser holds: app/security/public-page.server.ts) must not bring a policy whose nonce
+  // differs from the one in the page it keeps: a cache updates the stored headers from a 304 (RFC 9111, 4.3.4).
+  if (out.status === 304) out.headers.delete("Content-Security-Policy");
   // The error page React Router renders for a thrown 503 (database away) does not keep the thrown headers.
   if (out.status === 503 && !out.headers.has("Retry-After")) out.headers.set("Retry-After", "5");
   return out;

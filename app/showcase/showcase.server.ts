@@ -136,10 +136,12 @@ export async function eligibleEntries(competitionId: string): Promise<EligibleEn
   if (rows.length === 0) return [];
   // the crew's final pick, else the newest counting upload
   const counting = await countingUploads(rows.map((r) => r.id));
+  // Each entry's key hashed once, not once per comparison.
   return rows
     .filter((r) => counting.has(r.id))
-    .map((r) => ({ ...r, uploadId: counting.get(r.id)!.id, uploadNumber: counting.get(r.id)!.number }))
-    .sort((a, b) => presentationKey(comp.seed, a.id).localeCompare(presentationKey(comp.seed, b.id)));
+    .map((r) => ({ e: { ...r, uploadId: counting.get(r.id)!.id, uploadNumber: counting.get(r.id)!.number }, key: presentationKey(comp.seed, r.id) }))
+    .sort((a, b) => a.key.localeCompare(b.key))
+    .map(({ e }) => e);
 }
 
 export function mediaPath(c: Pick<PublicCompetition, "eventSlug" | "slug">, entryId: string, kind: "video" | "still"): string {
@@ -236,14 +238,14 @@ export async function publicMediaFile(
   c: PublicCompetition,
   entryId: string,
   kind: "video" | "still",
-): Promise<{ s3Key: string; mediaType: string; sizeBytes: number | null } | null> {
+): Promise<{ s3Key: string; mediaType: string; sizeBytes: number | null; sha256: string | null } | null> {
   if (!showcaseIsOpen(c)) return null;
   const e = (await eligibleEntries(c.id)).find((x) => x.id === entryId);
   if (!e) return null;
   const [f] = await db()
-    .select({ s3Key: uploadFiles.s3Key, mediaType: uploadFiles.mediaType, sizeBytes: uploadFiles.sizeBytes })
+    .select({ s3Key: uploadFiles.s3Key, mediaType: uploadFiles.mediaType, sizeBytes: uploadFiles.sizeBytes, sha256: uploadFiles.sha256 })
     .from(uploadFiles)
     .where(and(eq(uploadFiles.uploadId, e.uploadId), eq(uploadFiles.kind, kind), eq(uploadFiles.state, "confirmed")));
   if (!f) return null;
-  return { s3Key: f.s3Key, mediaType: f.mediaType ?? (kind === "video" ? "video/webm" : "image/png"), sizeBytes: f.sizeBytes };
+  return { s3Key: f.s3Key, mediaType: f.mediaType ?? (kind === "video" ? "video/webm" : "image/png"), sizeBytes: f.sizeBytes, sha256: f.sha256 };
 }

@@ -38,6 +38,10 @@ declare module "autocannon" {
       requests?: RequestSpec[];
     }
   }
-  function autocannon(opts: autocannon.Options, done: (err: Error | null, res: autocannon.Result) => void): unknown;
+  interface Instance {
+    /** Every response: the client, its status, bytes and response time in ms. */
+    on(event: "response", listener: (client: unknown, status: number, bytes: number, ms: number) => void): Instance;
+  }
+  function autocannon(opts: autocannon.Options, done: (err: Error | null, res: autocannon.Result) => void): Instance;
   export default autocannon;
 }
