@@ -28,16 +28,21 @@ function expectAgreement(ours: LayoutSummary, theirs: KlayoutSummary): void {
   expect(ours.topCell).toBe(theirs.topCell);
   expectSameBox(ours.bboxUm, theirs.bboxUm);
   expect(ours.instances).toEqual(theirs.instances);
-  const sortLabels = <T extends { text: string; xUm: number }>(l: T[]) => [...l].sort((a, b) => a.text.localeCompare(b.text) || a.xUm - b.xUm);
+  const sortLabels = <T extends { text: string; xUm: number; yUm: number }>(l: T[]) =>
+    [...l].sort((a, b) => a.text.localeCompare(b.text) || a.xUm - b.xUm || a.yUm - b.yUm);
   const a = sortLabels(ours.labels);
   const b = sortLabels(theirs.labels);
   expect(a.map((l) => l.text)).toEqual(b.map((l) => l.text));
   a.forEach((l, i) => {
-    expect(Math.abs(l.xUm - b[i].xUm)).toBeLessThanOrEqual(TOLERANCE_UM);
-    expect(l.layer).toBe(b[i].layer);
-    expect(l.texttype).toBe(b[i].texttype);
+    const what = `label ${l.text} #${i}`;
+    expect(Math.abs(l.xUm - b[i].xUm), what).toBeLessThanOrEqual(TOLERANCE_UM);
+    expect(Math.abs(l.yUm - b[i].yUm), what).toBeLessThanOrEqual(TOLERANCE_UM);
+    expect(l.layer, what).toBe(b[i].layer);
+    expect(l.texttype, what).toBe(b[i].texttype);
   });
   expect(ours.layers.map((k) => [k.layer, k.datatype])).toEqual(theirs.layers);
+  // the same cells on both sides (none missing from ours, none extra), each with the same box
+  expect(Object.keys(ours.cells).sort()).toEqual(Object.keys(theirs.cells).sort());
   for (const [name, box] of Object.entries(theirs.cells)) expectSameBox(ours.cells[name].bboxUm, box);
 }
 
