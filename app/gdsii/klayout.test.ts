@@ -59,7 +59,11 @@ describe("Gatecrash's reader agrees with KLayout", () => {
     const demo = generateDemoLayout({ seed: 7, flipFlops: 120, logicCells: 900, break: variant });
     const [ours, theirs] = await both(demo.bytes);
     expectAgreement(ours, theirs);
-    expect(ours.instances).toEqual(demo.facts.cellCounts);
+    // KLayout's census holds the numbers this test asked for (not the generator's own record of what it placed)
+    const n = (pattern: RegExp) => Object.entries(theirs.instances).reduce((sum, [cell, k]) => (pattern.test(cell) ? sum + k : sum), 0);
+    expect(n(/^gc_dffr?$/)).toBe(120);
+    expect(n(/^gc_(inv|nand2|nor2|and2|xor2|mux2|buf)$/)).toBe(900);
+    expect(n(/^gc_sram/)).toBe("forbiddenCell" in variant ? 1 : 0);
   });
 
   it("on arbitrary angles, magnification and mirrored arrays written by Gatecrash", async () => {
