@@ -5,7 +5,7 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { zipOf } from "../tests/support/archives";
 import { DEMO_RULESET } from "~/rules/ruleset";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../tests/support/demo-layout";
 
 /**
  * The `npm run check` CLI end to end, as an entrant runs it: a real process, real yosys/verilator, files

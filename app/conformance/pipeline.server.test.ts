@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { zipOf } from "../../tests/support/archives";
 import { designPath } from "../../demo/designs/index";
 import { runPipeline, type PipelineResult, type StepReport } from "./pipeline.server";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { DEMO_RULESET } from "~/rules/ruleset";
 
 /**

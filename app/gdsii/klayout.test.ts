@@ -1,7 +1,7 @@
 import { afterAll, describe, expect, it } from "vitest";
-import { generateDemoLayout } from "./demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { readLayout } from "./reader";
-import { klayoutFixture, klayoutSummary, writeTemp, type KlayoutSummary } from "./test-support/klayout.server";
+import { klayoutFixture, klayoutSummary, writeTemp, type KlayoutSummary } from "../../tests/support/klayout";
 import type { LayoutSummary } from "./summary";
 import { writeLayout } from "./writer";
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { worstVerdict } from "~/rules/findings";
 import { DEMO_RULESET, rulesetSchema, DEMO_PINS } from "~/rules/ruleset";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { readLayout } from "~/gdsii/reader";
 import { writeLayout } from "~/gdsii/writer";
 import { checkLayout, LayoutCheckError } from "./check-layout";

@@ -1,6 +1,6 @@
 import { writeFile } from "node:fs/promises";
 import { join } from "node:path";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../support/demo-layout";
 import { DEMO_RULESET } from "~/rules/ruleset";
 import { renameInPlace, writeTarGz, writeZip } from "../fixtures/hostile/archives";
 
