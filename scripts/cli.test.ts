@@ -4,7 +4,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO_RULESET } from "~/rules/ruleset";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../tests/support/demo-layout";
 
 /**
  * The compiled CLIs (scripts/cli.mjs bundling scripts/check.ts and scripts/recount.ts with esbuild) against the

@@ -1,6 +1,6 @@
 // Longer fuzz run of the GDSII reader: npx tsx scripts/fuzz-gdsii.ts [cases=5000] [seed=1]
-import { generateDemoLayout } from "../app/gdsii/demo-layout";
-import { mutateAndRead } from "../app/gdsii/fuzz";
+import { generateDemoLayout } from "../tests/support/demo-layout";
+import { mutateAndRead } from "../tests/support/gdsii-fuzz";
 
 const cases = Number(process.argv[2] ?? 5000);
 const seed = Number(process.argv[3] ?? 1);

@@ -29,10 +29,6 @@ export async function requireApiUser(context: RequestContext): Promise<SessionUs
   return s.user;
 }
 
-export function apiForbidden(message = "You may not do that."): never {
-  throw apiError(403, "forbidden", message);
-}
-
 export function apiNotFound(what = "That"): never {
   throw apiError(404, "not_found", `${what} was not found.`);
 }

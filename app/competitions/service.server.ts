@@ -6,7 +6,7 @@ import { VIDEO_MODES } from "~/rules/video-modes";
 import { db } from "~/db/client.server";
 import { competitions, criteria, entries, eventRoles, events } from "~/db/schema";
 import { slugify, type CompetitionValues, type EventForm } from "./forms";
-import { isDue, transitionProblem, type CompetitionState } from "./lifecycle";
+import { transitionProblem, type CompetitionState } from "./lifecycle";
 import { zonedWallTimeToUtc } from "./timezone";
 
 /** Events and competitions: create, edit, ruleset import, lifecycle moves and the deadline sweep. */
@@ -244,8 +244,6 @@ export async function closeDueAmong(ids: string[], now = new Date()): Promise<vo
   if (ids.length === 0) return;
   await closeWhere(and(inArray(competitions.id, ids), eq(competitions.state, "open"), lte(competitions.deadlineAt, now)), now);
 }
-
-export { isDue };
 
 export async function entryCounts(competitionId: string): Promise<{ active: number; disqualified: number; withdrawn: number }> {
   const rows = await db().select({ state: entries.state, n: count() }).from(entries).where(eq(entries.competitionId, competitionId)).groupBy(entries.state);

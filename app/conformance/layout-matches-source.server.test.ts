@@ -4,7 +4,7 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { zipOf } from "../../tests/support/archives";
 import { designPath } from "../../demo/designs/index";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { DEMO_PINS, DEMO_RULESET } from "~/rules/ruleset";
 import { runPipeline } from "./pipeline.server";
 

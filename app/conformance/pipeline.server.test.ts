@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { zipOf } from "../../tests/support/archives";
 import { designPath } from "../../demo/designs/index";
 import { runPipeline, type PipelineResult, type StepReport } from "./pipeline.server";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { DEMO_RULESET } from "~/rules/ruleset";
 
 /**
@@ -63,18 +63,20 @@ describe("the pipeline with an uploaded capture video", () => {
 
   it("reports the cheap steps before the reference capture, and the first still before the capture ends", async () => {
     writeFileSync(join(dir, "l.gds"), generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 40, logicCells: 300, seed: 1 }).bytes);
-    const seen: { report: StepReport; at: number }[] = [];
-    let simulationStarted = 0;
+    // the order things happened in, as one log (no clock): reports as they arrive, and the moment simulation starts
+    const seen: { report: StepReport }[] = [];
+    let reportsBeforeSimulation = -1;
     const result = await runPipeline({
       ruleset: DEMO_RULESET, workDir: join(dir, "w5"), bundlePath: join(dir, "b.zip"), layoutPath: join(dir, "l.gds"), simulate: true, frames: 12, encode: true,
       onStep: (step) => {
-        if (step === "simulation") simulationStarted = Date.now();
+        if (step === "simulation") reportsBeforeSimulation = seen.length;
       },
       onReport: (report) => {
-        seen.push({ report, at: Date.now() });
+        seen.push({ report });
       },
     });
-    const before = seen.filter((s) => s.at <= simulationStarted).flatMap((s) => s.report.findings.map((f) => f.rule));
+    expect(reportsBeforeSimulation).toBeGreaterThan(0);
+    const before = seen.slice(0, reportsBeforeSimulation).flatMap((s) => s.report.findings.map((f) => f.rule));
     for (const rule of ["intake.bundle", "precheck.clean", "source.top", "layout.die.size"]) expect(before).toContain(rule);
     const simulation = seen.filter((s) => s.report.step === "simulation");
     // two reports of the step: the first still alone, then everything else (the still is not sent twice)

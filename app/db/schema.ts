@@ -174,7 +174,7 @@ export const competitions = pgTable(
     juryWeightPct: integer("jury_weight_pct").notNull().default(70),
     blindJudging: boolean("blind_judging").notNull().default(true),
     orderMode: text("order_mode").notNull().default("shared"), // shared | per-judge
-    orderSeed: text("order_seed").notNull().default(sql`md5(random()::text)`),
+    orderSeed: text("order_seed").notNull().default(sql`'v2:' || md5(random()::text)`),
     judgingLocked: boolean("judging_locked").notNull().default(false),
     /** When the compo's entries are shown on the big screen (the party timetable); null = not scheduled yet. */
     showStartsAt: ts("show_starts_at"),
@@ -416,7 +416,7 @@ export const juryAssignments = pgTable(
     judgeUserId: text("judge_user_id")
       .notNull()
       .references(() => user.id, { onDelete: "cascade" }),
-    orderSeed: text("order_seed").notNull().default(sql`md5(random()::text)`),
+    orderSeed: text("order_seed").notNull().default(sql`'v2:' || md5(random()::text)`),
     createdAt: created(),
   },
   (t) => [primaryKey({ columns: [t.competitionId, t.judgeUserId] })],

@@ -1,6 +1,6 @@
 import { execFileSync } from "node:child_process";
 import { describe, expect, it } from "vitest";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { gzipLayoutProblem } from "./layout-gzip.server";
 
 // Compressed by Debian's gzip (RFC 1952), cut to the 4 KiB head the confirmation reads from the store.

@@ -41,7 +41,3 @@ function isOpen(node: Node): boolean {
   return node.conjunction === "or" ? isOpen(node.left) || isOpen(node.right) : isOpen(node.left) && isOpen(node.right);
 }
 
-/** The licence's display name, or the expression itself. */
-export function licenceName(expression: string): string {
-  return licences[expression]?.name ?? expression;
-}

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { generateDemoLayout } from "./demo-layout";
-import { mutateAndRead } from "./fuzz";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
+import { mutateAndRead } from "../../tests/support/gdsii-fuzz";
 
 describe("fuzzing the reader with seeded byte mutations", () => {
   it("every mutated file gives a summary or a GdsiiError, nothing else", () => {

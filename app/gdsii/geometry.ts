@@ -52,9 +52,3 @@ export function transformBox(b: Box, reflect: boolean, mag: number, angleDeg: nu
   return out;
 }
 
-/** Transforms one point (translation excluded) by the same rule as transformBox. */
-export function transformPoint(x: number, y0: number, reflect: boolean, mag: number, angleDeg: number): [number, number] {
-  const [c, s] = cosSin(angleDeg);
-  const y = reflect ? -y0 : y0;
-  return [mag * (c * x - s * y), mag * (s * x + c * y)];
-}

@@ -5,10 +5,10 @@ import { join } from "node:path";
 import { gzipSync } from "node:zlib";
 import { writeLayout } from "./writer";
 import { afterAll, describe, expect, it } from "vitest";
-import { generateDemoLayout } from "./demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { GdsiiError } from "./errors";
 import { readLayoutFile } from "./reader.server";
-import { klayoutSummary } from "./test-support/klayout.server";
+import { klayoutSummary } from "../../tests/support/klayout";
 
 /**
  * Compressed layouts (.gds.gz): compressed by Debian's gzip (an independent implementation of RFC 1952), read by

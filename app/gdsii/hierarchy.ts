@@ -81,6 +81,12 @@ export function summarize(scan: RecordScanner, limits: ReadLimits): LayoutSummar
     instanceCountsExact: exact,
     labels: topState.labels.map((l) => ({ text: l.text, layer: l.layer, texttype: l.texttype, xUm: l.x * um, yUm: l.y * um })),
     labelsTruncated: scan.labelsTruncated,
+    absoluteTransforms: {
+      placements: scan.absolute.placements,
+      magnification: scan.absolute.magnification,
+      angle: scan.absolute.angle,
+      cells: [...scan.absolute.cells].map((i) => structs[i].name).sort(),
+    },
     layers: [...scan.layers].sort((a, b) => a - b).map((k) => ({ layer: Math.floor(k / 65536), datatype: k % 65536 })),
     topCellLayers: [...topState.ownByLayer.entries()]
       .sort((a, b) => a[0] - b[0])

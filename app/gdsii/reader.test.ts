@@ -221,3 +221,37 @@ describe("many structure names", () => {
     expect(Object.keys(summary.instances)).toHaveLength(names.length);
   });
 });
+
+describe("absolute magnification and absolute angle (STRANS)", () => {
+  // GDSII Stream Format Manual, release 6.0, STRANS: a bit array whose bits are numbered from the left of the
+  // 16-bit word; bit 0 reflects, bit 13 makes the magnification absolute, bit 14 the angle: 0x8000, 0x0004, 0x0002.
+  // An absolute transform ignores the transforms of the placements above it, so a cell's box no longer depends on
+  // the cell alone; Gatecrash counts such placements, and the layout check refuses them.
+  const BGN = new Array(12).fill(1);
+  const file = (strans: number) =>
+    libraryStart()
+      .int16(R.BGNSTR, BGN).ascii(R.STRNAME, "leaf")
+      .none(R.BOUNDARY).int16(R.LAYER, [1]).int16(R.DATATYPE, [0]).int32(R.XY, [0, 0, 1000, 0, 1000, 500, 0, 500, 0, 0]).none(R.ENDEL)
+      .none(R.ENDSTR)
+      .int16(R.BGNSTR, BGN).ascii(R.STRNAME, "mid")
+      .none(R.SREF).ascii(R.SNAME, "leaf").int16(R.STRANS, [strans], D.BITARRAY).real8(R.MAG, [2]).real8(R.ANGLE, [90]).int32(R.XY, [0, 0]).none(R.ENDEL)
+      .none(R.ENDSTR)
+      .int16(R.BGNSTR, BGN).ascii(R.STRNAME, "top")
+      .none(R.SREF).ascii(R.SNAME, "mid").int16(R.STRANS, [0], D.BITARRAY).real8(R.MAG, [3]).int32(R.XY, [0, 0]).none(R.ENDEL)
+      .none(R.SREF).ascii(R.SNAME, "mid").int32(R.XY, [50_000, 0]).none(R.ENDEL)
+      .none(R.ENDSTR)
+      .none(R.ENDLIB)
+      .bytes();
+
+  it("counts placements with absolute magnification (0x0004) or absolute angle (0x0002), and where they are", () => {
+    expect(readLayout(file(0x0004)).absoluteTransforms).toEqual({ placements: 1, magnification: true, angle: false, cells: ["mid"] });
+    expect(readLayout(file(0x0002)).absoluteTransforms).toEqual({ placements: 1, magnification: false, angle: true, cells: ["mid"] });
+    expect(readLayout(file(0x8006)).absoluteTransforms).toEqual({ placements: 1, magnification: true, angle: true, cells: ["mid"] });
+  });
+
+  it("finds none where only the reflection bit or no bit is set", () => {
+    expect(readLayout(file(0x8000)).absoluteTransforms).toEqual({ placements: 0, magnification: false, angle: false, cells: [] });
+    expect(readLayout(file(0)).absoluteTransforms).toEqual({ placements: 0, magnification: false, angle: false, cells: [] });
+  });
+});
+

@@ -1,7 +1,7 @@
 import { GdsiiError } from "./errors";
 import { addBox, addPoint, emptyBox, type Box } from "./geometry";
 import { readReal8 } from "./real8";
-import { LAST_RECORD_TYPE, RecordType as R, recordTypeName, STRANS_REFLECT } from "./records";
+import { LAST_RECORD_TYPE, RecordType as R, recordTypeName, STRANS_ABS_ANGLE, STRANS_ABS_MAG, STRANS_REFLECT } from "./records";
 import type { ReadLimits } from "./summary";
 
 /**
@@ -66,6 +66,11 @@ export class RecordScanner {
   labelCount = 0;
   labelsTruncated = false;
   classCount = 0;
+  /**
+   * Placements (SREF, AREF) whose STRANS sets absolute magnification or absolute angle. Their cell's transform would
+   * not compose with the placements above it, so the boxes below assume it does; the layout check refuses them.
+   */
+  readonly absolute = { placements: 0, magnification: false, angle: false, cells: new Set<number>() };
   readonly collected: CollectedPlacements | null;
 
   /** Open-addressing hash table of structure names: slot → structure index + 1 (0: empty), linear probing. */
@@ -85,6 +90,7 @@ export class RecordScanner {
   private bgnExtn = 0;
   private endExtn = 0;
   private reflect = false;
+  private absoluteBits = 0;
   private mag = 1;
   private angle = 0;
   private cols = 0;
@@ -129,33 +135,33 @@ export class RecordScanner {
       const size = len - 4;
       const at = base + pos;
       switch (type) {
-        case 0x0d: // LAYER
+        case R.LAYER:
           if (size < 2) need(size, 2, "LAYER", at);
           this.layer = (buf[pos + 4] << 8) | buf[pos + 5];
           break;
-        case 0x0e: // DATATYPE
+        case R.DATATYPE:
           if (size < 2) need(size, 2, "DATATYPE", at);
           this.datatype = (buf[pos + 4] << 8) | buf[pos + 5];
           break;
-        case 0x21: // PATHTYPE
+        case R.PATHTYPE:
           if (size < 2) need(size, 2, "PATHTYPE", at);
           this.pathtype = view.getInt16(pos + 4);
           break;
-        case 0x0f: // WIDTH
+        case R.WIDTH:
           if (size < 4) need(size, 4, "WIDTH", at);
           this.width = Math.abs(view.getInt32(pos + 4)); // negative = absolute width; same extent here
           break;
-        case 0x10: // XY
+        case R.XY:
           this.readXy(view, pos + 4, size, at);
           break;
-        case 0x11: // ENDEL
+        case R.ENDEL:
           this.endElement(at);
           break;
-        case 0x09: // PATH
-        case 0x0a: // SREF
+        case R.PATH:
+        case R.SREF:
           this.startElement(type, at);
           break;
-        case 0x12: // SNAME
+        case R.SNAME:
           this.inElement("SNAME", at);
           this.sname = this.lookupName(buf, pos + 4, size, at);
           break;
@@ -177,13 +183,12 @@ export class RecordScanner {
       this.sawHeader = true;
       return;
     }
-    // Literal case labels let V8 compile a jump table; the names are in the comments and in records.ts. The most
-    // common records (LAYER, DATATYPE, WIDTH, PATHTYPE, XY, ENDEL, PATH, SREF, SNAME) are handled in scan().
+    // The most common records (LAYER, DATATYPE, WIDTH, PATHTYPE, XY, ENDEL, PATH, SREF, SNAME) are handled in scan().
     switch (type) {
-      case 0x02: // LIBNAME
+      case R.LIBNAME:
         this.libName = latin1(buf, data, size);
         return;
-      case 0x03: // UNITS
+      case R.UNITS:
         need(size, 16, "UNITS", at);
         this.userUnitsPerDbUnit = readReal8(view, data);
         this.metersPerDbUnit = readReal8(view, data + 8);
@@ -191,58 +196,61 @@ export class RecordScanner {
           throw new GdsiiError("UNITS must give a positive size of the database unit", at);
         }
         return;
-      case 0x05: // BGNSTR
+      case R.BGNSTR:
         if (this.current) throw new GdsiiError(`structure ${this.current.name} has no ENDSTR before the next BGNSTR`, at);
         this.current = placeholder(at);
         return;
-      case 0x06: // STRNAME
+      case R.STRNAME:
         this.defineStructure(buf, data, size, at);
         return;
-      case 0x07: // ENDSTR
+      case R.ENDSTR:
         if (!this.current) throw new GdsiiError("ENDSTR without a structure", at);
         if (this.element !== NO_ELEMENT) throw new GdsiiError(`structure ${this.current.name} ends inside an element`, at);
         this.current = null;
         return;
-      case 0x04: // ENDLIB
+      case R.ENDLIB:
         if (this.current) throw new GdsiiError(`the library ends inside structure ${this.current.name}`, at);
         this.ended = true;
         return;
-      case 0x08: // BOUNDARY
-      case 0x0b: // AREF
-      case 0x0c: // TEXT
-      case 0x15: // NODE
-      case 0x2d: // BOX
+      case R.BOUNDARY:
+      case R.AREF:
+      case R.TEXT:
+      case R.NODE:
+      case R.BOX:
         this.startElement(type, at);
         return;
-      case 0x16: // TEXTTYPE
-      case 0x2e: // BOXTYPE
-      case 0x2a: // NODETYPE
+      case R.TEXTTYPE:
+      case R.BOXTYPE:
+      case R.NODETYPE:
         need(size, 2, recordTypeName(type), at);
         this.datatype = view.getUint16(data);
         return;
-      case 0x30: // BGNEXTN
+      case R.BGNEXTN:
         need(size, 4, "BGNEXTN", at);
         this.bgnExtn = view.getInt32(data);
         return;
-      case 0x31: // ENDEXTN
+      case R.ENDEXTN:
         need(size, 4, "ENDEXTN", at);
         this.endExtn = view.getInt32(data);
         return;
-      case 0x1a: // STRANS
+      case R.STRANS: {
         need(size, 2, "STRANS", at);
-        this.reflect = (view.getUint16(data) & STRANS_REFLECT) !== 0;
+        const bits = view.getUint16(data);
+        this.reflect = (bits & STRANS_REFLECT) !== 0;
+        this.absoluteBits = bits & (STRANS_ABS_MAG | STRANS_ABS_ANGLE);
         return;
-      case 0x1b: // MAG
+      }
+      case R.MAG:
         need(size, 8, "MAG", at);
         this.mag = readReal8(view, data);
         if (!(this.mag > 0)) throw new GdsiiError(`MAG ${this.mag} is not a positive magnification`, at);
         return;
-      case 0x1c: // ANGLE
+      case R.ANGLE:
         need(size, 8, "ANGLE", at);
         this.angle = readReal8(view, data);
         if (!Number.isFinite(this.angle)) throw new GdsiiError("ANGLE is not a finite number", at);
         return;
-      case 0x13: // COLROW
+      case R.COLROW:
         need(size, 4, "COLROW", at);
         this.cols = view.getInt16(data);
         this.rows = view.getInt16(data + 2);
@@ -250,7 +258,7 @@ export class RecordScanner {
           throw new GdsiiError(`an AREF needs at least 1 column and 1 row, not ${this.cols} × ${this.rows}`, at);
         }
         return;
-      case 0x19: // STRING
+      case R.STRING:
         this.inElement("STRING", at);
         this.text = latin1(buf, data, size);
         return;
@@ -288,6 +296,7 @@ export class RecordScanner {
     this.bgnExtn = 0;
     this.endExtn = 0;
     this.reflect = false;
+    this.absoluteBits = 0;
     this.mag = 1;
     this.angle = 0;
     this.cols = 0;
@@ -306,18 +315,18 @@ export class RecordScanner {
     if (size % 8 !== 0 || size === 0) throw new GdsiiError(`XY holds ${size} bytes, not a whole number of points`, at);
     const n = size / 8;
     const type = this.element;
-    if (type === 0x0a /* SREF */ || type === 0x0c /* TEXT */ || type === 0x0b /* AREF */) {
-      const wanted = type === 0x0b /* AREF */ ? 3 : 1;
+    if (type === R.SREF || type === R.TEXT || type === R.AREF) {
+      const wanted = type === R.AREF ? 3 : 1;
       if (n !== wanted) throw new GdsiiError(`${recordTypeName(type)} needs ${wanted} XY point${wanted > 1 ? "s" : ""}, not ${n}`, at);
       for (let i = 0; i < 2 * n; i++) this.xy[i] = view.getInt32(data + 4 * i);
       this.xyCount = n;
       return;
     }
     this.xyCount = n;
-    if (type === 0x15 /* NODE */) return; // electrical connectivity only: no geometry
+    if (type === R.NODE) return; // electrical connectivity only: no geometry
     const own = this.current!.own;
     const box = this.layerBox();
-    if (type === 0x09 /* PATH */) {
+    if (type === R.PATH) {
       pathBounds(view, data, n, this.width / 2, this.pathtype, this.bgnExtn, this.endExtn, own, box);
       return;
     }
@@ -355,7 +364,7 @@ export class RecordScanner {
     if (this.xyCount < 0) throw new GdsiiError(`${recordTypeName(type)} element without XY`, this.elementAt);
     this.element = NO_ELEMENT;
     const cur = this.current!;
-    if (type === 0x0c /* TEXT */) {
+    if (type === R.TEXT) {
       const box = this.layerBox();
       const x = this.xy[0];
       const y = this.xy[1];
@@ -368,8 +377,15 @@ export class RecordScanner {
       }
       return;
     }
-    if (type !== 0x0a /* SREF */ && type !== 0x0b /* AREF */) return;
+    if (type !== R.SREF && type !== R.AREF) return;
     if (this.sname < 0) throw new GdsiiError(`${recordTypeName(type)} element without SNAME`, this.elementAt);
+    if (this.absoluteBits !== 0) {
+      const abs = this.absolute;
+      abs.placements++;
+      if (this.absoluteBits & STRANS_ABS_MAG) abs.magnification = true;
+      if (this.absoluteBits & STRANS_ABS_ANGLE) abs.angle = true;
+      abs.cells.add(this.currentIndex);
+    }
     const xy = this.xy;
     let count = 1;
     // The box of the placement origins, kept in four numbers (no array per placement).
@@ -377,7 +393,7 @@ export class RecordScanner {
     let oy0 = xy[1];
     let ox1 = ox0;
     let oy1 = oy0;
-    if (type === 0x0b /* AREF */) {
+    if (type === R.AREF) {
       if (this.cols === 0) throw new GdsiiError("AREF element without COLROW", this.elementAt);
       const c = this.cols;
       const r = this.rows;

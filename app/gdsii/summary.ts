@@ -49,6 +49,12 @@ export interface LayoutSummary {
   /** Texts placed in the top cell itself, in the top cell's µm. */
   labels: LayoutLabel[];
   labelsTruncated: boolean;
+  /**
+   * Placements whose STRANS sets absolute magnification (0x0004) or absolute angle (0x0002). Gatecrash composes every
+   * transform with the ones above it, as for relative ones, so figures under such a placement may be wrong; the
+   * layout check refuses them. `cells`: the cells that hold such placements, by name.
+   */
+  absoluteTransforms: { placements: number; magnification: boolean; angle: boolean; cells: string[] };
   /** Every layer/datatype pair used by a boundary, path, box or text anywhere in the library. */
   layers: LayerKey[];
   /** Bounding box of the top cell's own shapes, per layer (its placements not included). */

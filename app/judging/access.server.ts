@@ -1,5 +1,4 @@
 import { and, eq, exists, sql } from "drizzle-orm";
-import { isAdmin, type SessionUser } from "~/auth/guards.server";
 import { db } from "~/db/client.server";
 import { competitions, eventRoles, events, juryAssignments } from "~/db/schema";
 import { isUuid } from "./errors";
@@ -73,28 +72,4 @@ export function judgingView(c: typeof competitions.$inferSelect, e: typeof event
     eventTitle: e.title,
     timeZone: e.timeZone,
   };
-}
-
-/** The competition if the user organizes its event (a platform admin organizes every event). */
-export async function competitionForOrganizer(user: SessionUser, competitionId: string | undefined): Promise<JudgingCompetition | null> {
-  if (!isUuid(competitionId)) return null;
-  const admin = isAdmin(user);
-  const [row] = await db()
-    .select(fields)
-    .from(competitions)
-    .innerJoin(events, eq(events.id, competitions.eventId))
-    .where(
-      and(
-        eq(competitions.id, competitionId),
-        admin
-          ? undefined
-          : exists(
-              db()
-                .select({ one: sql`1` })
-                .from(eventRoles)
-                .where(and(eq(eventRoles.eventId, competitions.eventId), eq(eventRoles.userId, user.id), eq(eventRoles.role, "organizer"))),
-            ),
-      ),
-    );
-  return row ?? null;
 }

@@ -36,16 +36,6 @@ export async function judgedEntries(competitionId: string): Promise<{ entries: J
   };
 }
 
-/** One judged entry of the competition, or null (not in it, not active, or no counting upload). */
-export async function judgedEntry(competitionId: string, entryId: string): Promise<JudgedEntry | null> {
-  const [row] = await db()
-    .select({ id: entries.id, title: entries.title, crewId: entries.crewId, crewName: crews.name, crewHandle: crews.handle })
-    .from(entries)
-    .innerJoin(crews, eq(crews.id, entries.crewId))
-    .where(and(eq(entries.id, entryId), eq(entries.competitionId, competitionId), eq(entries.state, "active"), hasCountingUpload()));
-  return row ?? null;
-}
-
 export async function criteriaOf(competitionId: string): Promise<ScaleCriterion[]> {
   return db()
     .select({ id: criteria.id, name: criteria.name, weight: criteria.weight, scaleMin: criteria.scaleMin, scaleMax: criteria.scaleMax })

@@ -8,7 +8,7 @@ import { orderSeedFor, seededOrder } from "./order";
 import { isFullyScored } from "./sheet";
 import type { GridCell, GridData, GridRow } from "./types";
 
-export type { GridCell, GridData, GridRow } from "./types";
+export type { GridData } from "./types";
 
 export function crewVisible(c: Pick<JudgingCompetition, "blindJudging" | "state">): boolean {
   return !c.blindJudging || c.state === "results";

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { worstVerdict } from "~/rules/findings";
 import { DEMO_RULESET, rulesetSchema, DEMO_PINS } from "~/rules/ruleset";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { readLayout } from "~/gdsii/reader";
 import { writeLayout } from "~/gdsii/writer";
 import { checkLayout, LayoutCheckError } from "./check-layout";
@@ -103,3 +103,36 @@ describe("checkLayout", () => {
     expect(() => checkLayout(readLayout(generateDemoLayout({ flipFlops: 2, logicCells: 2 }).bytes), ruleset)).toThrow(LayoutCheckError);
   });
 });
+
+describe("placements with absolute transforms", () => {
+  it("refuses a layout whose placements set absolute magnification or angle, naming the cells", () => {
+    // A demo layout whose top cell places its flip-flops with STRANS 0x0004 (absolute magnification, bit 13 of the
+    // GDSII Stream Format Manual 6.0's STRANS word), patched into the generated file record by record.
+    const bytes = Buffer.from(generateDemoLayout({ seed: 5, flipFlops: 140, logicCells: 1500, ruleset: DEMO_RULESET }).bytes);
+    const patched = withAbsoluteMagnification(bytes);
+    const r = checkLayout(readLayout(patched), DEMO_RULESET);
+    const f = r.findings.find((x) => x.rule === "layout.strans.absolute");
+    expect(f?.verdict).toBe("fail");
+    expect(String(f?.measured)).toMatch(/^\d+ placements? with absolute magnification in gc_entry$/);
+    // the same layout without the flag has no such finding
+    expect(checkLayout(readLayout(bytes), DEMO_RULESET).findings.some((x) => x.rule === "layout.strans.absolute")).toBe(false);
+  });
+});
+
+/** Sets the absolute-magnification bit in every STRANS record (type 0x1a, 2 data bytes) of a GDSII stream. */
+function withAbsoluteMagnification(bytes: Buffer): Buffer {
+  const out = Buffer.from(bytes);
+  let seen = 0;
+  for (let pos = 0; pos + 4 <= out.length; ) {
+    const len = out.readUInt16BE(pos);
+    if (out[pos + 2] === 0x1a && len === 6) {
+      out.writeUInt16BE(out.readUInt16BE(pos + 4) | 0x0004, pos + 4);
+      seen++;
+    }
+    if (out[pos + 2] === 0x04) break; // ENDLIB
+    pos += len;
+  }
+  if (seen === 0) throw new Error("the generated layout has no STRANS record to patch");
+  return out;
+}
+

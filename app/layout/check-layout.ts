@@ -82,6 +82,23 @@ export function checkLayout(summary: LayoutSummary, ruleset: Ruleset): { finding
     add({ rule: "layout.top.name", verdict: "pass", title: "The top cell is the ruleset's top module", measured: summary.topCell, limit: ruleset.topModule });
   }
 
+  // Absolute magnification or angle (STRANS bits 13 and 14): the reader composes every placement's transform with
+  // the ones above it, which is wrong for these, so the figures below cannot be trusted for this layout.
+  const abs = summary.absoluteTransforms;
+  if (abs.placements > 0) {
+    const which = [abs.magnification ? "magnification" : null, abs.angle ? "angle" : null].filter(Boolean).join(" and ");
+    const cells = abs.cells.length > 5 ? `${abs.cells.slice(0, 5).join(", ")} and ${abs.cells.length - 5} more` : abs.cells.join(", ");
+    add({
+      rule: "layout.strans.absolute",
+      verdict: "fail",
+      title: "Placements use relative magnification and angle",
+      measured: `${abs.placements} placement${abs.placements === 1 ? "" : "s"} with absolute ${which} in ${cells}`,
+      limit: "none",
+      evidence: "STRANS sets the absolute-magnification or absolute-angle flag; Gatecrash does not measure such placements, so the sizes and counts below may be off",
+      advice: "Export the layout again with relative transforms (clear the absolute magnification and angle flags of the cell placements).",
+    });
+  }
+
   // Die and shape.
   const outline = summary.topCellLayers.find((l) => l.layer === DIE_OUTLINE_LAYER.layer && l.datatype === DIE_OUTLINE_LAYER.datatype);
   const extent = outline?.bboxUm ?? summary.bboxUm ?? [0, 0, 0, 0];

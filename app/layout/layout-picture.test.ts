@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { PNG } from "pngjs";
 import { DEMO_RULESET } from "~/rules/ruleset";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { readLayout } from "~/gdsii/reader";
 import { KIND_STYLE } from "./cell-kinds";
 import { layoutPictureSvg } from "./layout-picture";

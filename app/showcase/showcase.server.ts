@@ -225,14 +225,6 @@ export async function showcaseEntries(c: PublicCompetition): Promise<ShowcaseEnt
   return describeAll(c, list.map((e, i) => ({ e, position: i + 1 })));
 }
 
-export async function showcaseEntry(c: PublicCompetition, entryId: string): Promise<ShowcaseEntry | null> {
-  const list = await eligibleEntries(c.id);
-  const i = list.findIndex((e) => e.id === entryId);
-  if (i < 0) return null;
-  const [one] = await describeAll(c, [{ e: list[i], position: i + 1 }]);
-  return one;
-}
-
 /** The storage key of an eligible entry's capture video or still, for streaming; null when not public. */
 export async function publicMediaFile(
   c: PublicCompetition,

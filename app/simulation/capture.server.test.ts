@@ -171,9 +171,8 @@ describe("evaluating only the rising clock edge", () => {
 describe("limits", () => {
   it("kills a design whose elaboration never ends at the compile limit, with a clear finding", async () => {
     const ruleset = rulesetSchema.parse({ ...DEMO_RULESET, simulation: { ...DEMO_RULESET.simulation, compileSeconds: 5 } });
-    const started = Date.now();
+    // the limit shows in the finding; how long the kill takes is timed by `npx tsx tests/abuse/hogs.ts`, not asserted here
     const c = await capture("endless", "", false, "gc_endless_elaboration.v", ruleset);
-    expect(Date.now() - started).toBeLessThan(30_000);
     expect(c.findings).toHaveLength(1);
     expect(c.findings[0]).toMatchObject({ rule: "simulation.compile", verdict: "fail", limit: "5 s" });
     expect(String(c.findings[0].measured)).toMatch(/compile limit|CPU time/);

@@ -11,7 +11,7 @@ import { BundleError } from "./bundle-error";
 import { PathRegistry, folderDepth, safeMemberPath } from "./bundle-paths";
 import { countSourceLines, isVerilogPath } from "./verilog-lexer";
 
-export { BundleError, type BundleErrorCode } from "./bundle-error";
+export { BundleError } from "./bundle-error";
 
 /** The ruleset's `uploadLimits` fit this shape directly. */
 export interface BundleLimits {

@@ -17,7 +17,7 @@ import {
 import { assertSandboxStarted, terminationSignal } from "./tool-run";
 import { scanVerilog } from "./verilog-lexer";
 
-export type { SourceFigures, SourcePort } from "./source-figures";
+export type { SourceFigures } from "./source-figures";
 
 export interface SourceCheckOptions {
   limits?: Partial<SandboxLimits>;

@@ -55,12 +55,6 @@ export async function getObjectStream(key: string, range?: string): Promise<Read
   return res.Body as Readable;
 }
 
-export async function getObjectBytes(key: string): Promise<Buffer> {
-  const chunks: Buffer[] = [];
-  for await (const c of await getObjectStream(key)) chunks.push(Buffer.from(c as Uint8Array));
-  return Buffer.concat(chunks);
-}
-
 /** SHA-256 and size computed by streaming the stored object (never trusting what the browser said). */
 export async function hashObject(key: string): Promise<{ sha256: string; size: number; head: Buffer }> {
   const h = createHash("sha256");

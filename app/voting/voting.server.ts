@@ -25,7 +25,6 @@ export const CAST_LIMIT = 10;
 export const CAST_WINDOW_S = 60;
 export const CODE_ATTEMPT_LIMIT = 20;
 export const CODE_ATTEMPT_WINDOW_S = 60;
-export { MAX_CODES_PER_BATCH } from "./code-book.server";
 
 export type BallotMethod = "points" | "borda" | "schulze";
 export type BallotContent = PointsBallot | RankedBallot;

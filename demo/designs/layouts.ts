@@ -1,4 +1,4 @@
-import { generateDemoLayout, type DemoLayout } from "../../app/gdsii/demo-layout";
+import { generateDemoLayout, type DemoLayout } from "../../tests/support/demo-layout";
 import { DEMO_PINS, DEMO_RULESET, type Pin } from "../../app/rules/ruleset";
 import { DEMO_DESIGNS } from "./index";
 

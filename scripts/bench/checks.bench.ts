@@ -95,7 +95,7 @@ export async function benchChecks(): Promise<void> {
     const { db, closeDb } = await import("../../app/db/client.server");
     const schema = await import("../../app/db/schema");
     const { DEMO_RULESET } = await import("../../app/rules/ruleset");
-    const { generateDemoLayout } = await import("../../app/gdsii/demo-layout");
+    const { generateDemoLayout } = await import("../../tests/support/demo-layout");
     const { clearModelCache } = await import("../../app/simulation/model-cache.server");
     const { DEMO_DESIGNS, designPath } = await import("../../demo/designs/index");
     const { and, eq, inArray, sql } = await import("drizzle-orm");

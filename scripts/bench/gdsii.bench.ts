@@ -5,7 +5,7 @@ import { mkdtempSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { promisify } from "node:util";
-import { generateDemoLayout } from "../../app/gdsii/demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { readLayout } from "../../app/gdsii/reader";
 import { readLayoutFile } from "../../app/gdsii/reader.server";
 import { DEMO_RULESET, type Ruleset } from "../../app/rules/ruleset";

@@ -6,7 +6,7 @@ import { promisify } from "node:util";
 import { chmodSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
-import { generateDemoLayout } from "../../app/gdsii/demo-layout";
+import { generateDemoLayout } from "../../tests/support/demo-layout";
 import { readLayoutFile } from "../../app/gdsii/reader.server";
 import { fetchRepository } from "../../app/sources/repository.server";
 import { DEMO_RULESET, rulesetSchema } from "../../app/rules/ruleset";

@@ -1,4 +1,4 @@
-import { execFileSync, spawnSync } from "node:child_process";
+import { spawnSync } from "node:child_process";
 import { existsSync, readdirSync } from "node:fs";
 
 /** Debian packages Gatecrash needs at run time, and the extra ones its tests use. */
@@ -51,11 +51,3 @@ export function postgresBinDir(): string {
   return `/usr/lib/postgresql/${versions[0]}/bin`;
 }
 
-export function commandExists(cmd: string): boolean {
-  try {
-    execFileSync("sh", ["-c", `command -v ${cmd}`], { stdio: "ignore" });
-    return true;
-  } catch {
-    return false;
-  }
-}

@@ -1,6 +1,6 @@
 import { writeFile } from "node:fs/promises";
 import { join } from "node:path";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../support/demo-layout";
 import { DEMO_RULESET } from "~/rules/ruleset";
 import { renameInPlace, writeTarGz, writeZip } from "../fixtures/hostile/archives";
 
@@ -60,7 +60,7 @@ export async function hostileBundles(dir: string): Promise<HostileBundle[]> {
   add("10,000 tiny files (tar.gz)", "many.tar.gz", "intake.too-many-files");
 
   await writeFile(join(dir, "not-an-archive.zip"), Buffer.from("PK\u0003\u0004 this is not really a zip file at all"));
-  add("a truncated zip header", "not-an-archive.zip", "intake.");
+  add("a truncated zip header", "not-an-archive.zip", "intake.corrupt");
   return out;
 }
 

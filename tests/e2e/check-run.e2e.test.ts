@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { zipOf } from "../support/archives";
 import { DEMO_RULESET } from "~/rules/ruleset";
 import { queueCheckRun } from "~/conformance/queue.server";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../support/demo-layout";
 import { stopQueue } from "~/jobs/queue.server";
 import { designPath } from "../../demo/designs/index";
 import { makeCompetitionWithEntry, makeCompleteUpload } from "../support/entries";

@@ -27,7 +27,7 @@ let mod: {
   users: typeof import("../support/users");
   entries: typeof import("../support/entries");
   archives: typeof import("../support/archives");
-  layout: typeof import("~/gdsii/demo-layout");
+  layout: typeof import("../support/demo-layout");
   rules: typeof import("~/rules/ruleset");
 };
 
@@ -46,7 +46,7 @@ beforeAll(async () => {
     users: await import("../support/users"),
     entries: await import("../support/entries"),
     archives: await import("../support/archives"),
-    layout: await import("~/gdsii/demo-layout"),
+    layout: await import("../support/demo-layout"),
     rules: await import("~/rules/ruleset"),
   };
 }, 120_000);

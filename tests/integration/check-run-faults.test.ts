@@ -10,7 +10,7 @@ import { env } from "~/env.server";
 import { DEMO_RULESET } from "~/rules/ruleset";
 import { executeCheckRun } from "~/conformance/run.server";
 import { queueCheckRun } from "~/conformance/queue.server";
-import { generateDemoLayout } from "~/gdsii/demo-layout";
+import { generateDemoLayout } from "../support/demo-layout";
 import { stopQueue } from "~/jobs/queue.server";
 import { putObject } from "~/storage/s3.server";
 import { designPath } from "../../demo/designs/index";

@@ -87,7 +87,7 @@ describe("a worker killed in the middle of a check run", () => {
   it("the job is handed out again and the run finishes exactly once", async () => {
     const { makeEvent, makeUser } = await import("../support/users");
     const { makeCompetitionWithEntry, makeCompleteUpload } = await import("../support/entries");
-    const { generateDemoLayout } = await import("~/gdsii/demo-layout");
+    const { generateDemoLayout } = await import("../support/demo-layout");
     const { DEMO_RULESET } = await import("~/rules/ruleset");
     const { checkRuns, findings, artifacts } = mod.schema;
     const db = mod.db.db;
@@ -170,7 +170,7 @@ describe("the object store is down during an upload", () => {
     const post = (path: string, body: unknown) => request(app).post(path).set("Host", host).set("Origin", `http://${host}`).set("Cookie", s.cookie).send(body as object);
 
     const bytes = await zipOf("xor.v", readFileSync(designPath("xor-tide")));
-    const { generateDemoLayout } = await import("~/gdsii/demo-layout");
+    const { generateDemoLayout } = await import("../support/demo-layout");
     const { DEMO_RULESET } = await import("~/rules/ruleset");
     const gds = Buffer.from(generateDemoLayout({ ruleset: DEMO_RULESET, shape: "single", flipFlops: 30, logicCells: 200, seed: 5 }).bytes);
     const started = await post(`/api/entries/${s.entry.id}/uploads`, {

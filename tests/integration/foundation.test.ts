@@ -14,6 +14,7 @@ import * as signUp from "~/routes/sign-up";
 import * as signIn from "~/routes/sign-in";
 import { firstLink, waitForMail } from "../support/mail";
 import { callRoute, routeArgs } from "../support/routes";
+import { callApi } from "./entries-support";
 import { grantEventRole, makeEvent, makeUser, request, sessionCookie, unique } from "../support/users";
 
 afterAll(async () => {
@@ -53,8 +54,10 @@ describe("role guards on loaders", () => {
 
 describe("the JSON API convention", () => {
   it("answers anonymous calls with the one error shape and 401", async () => {
-    const out = await callRoute<Response>(apiMe.loader, request("/api/me"));
+    const out = await callApi(apiMe.loader, request("/api/me"));
     expect(out.status).toBe(401);
+    // the whole body, exactly: { error: { status, code, message } } (app/api/json.server.ts), nothing else
+    expect(out.body).toEqual({ error: { status: 401, code: "unauthenticated", message: "Sign in first." } });
   });
 
   it("returns the signed-in user's roles", async () => {

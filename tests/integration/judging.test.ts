@@ -36,6 +36,8 @@ describe("the scoring grid and who sees it", () => {
     const out = await callRoute<GridOut>(gridRoute.loader, request(`/judging/${compo.competitionId}`, { cookie }), { competitionId: compo.competitionId });
     expect(out.status).toBe(200);
     const [comp] = await db().select({ seed: competitions.orderSeed }).from(competitions).where(eq(competitions.id, compo.competitionId));
+    // a new compo's seed is versioned (migration 0008), so its order is FNV-1a over UTF-8
+    expect(comp.seed).toMatch(/^v2:[0-9a-f]{32}$/);
     const expected = seededOrder(compo.entries.slice(0, 3).map((e) => e.id), comp.seed);
     expect(out.data!.grid.rows.map((r) => r.entryId)).toEqual(expected);
     expect(out.data!.grid.rows.map((r) => r.position)).toEqual([1, 2, 3]);

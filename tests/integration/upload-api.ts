@@ -48,7 +48,7 @@ export async function confirm(cookie: string, uploadId: string, f: Planned) {
 }
 
 export async function complete(cookie: string, uploadId: string) {
-  return callApi<{ number: number; state: string; message: string; error: { code: string; message: string } }>(
+  return callApi<{ number: number; state: string; message: string; already?: boolean; error: { code: string; message: string } }>(
     uploadApi.action,
     request(`/api/uploads/${uploadId}`, { cookie, json: { action: "complete" } }),
     { uploadId },

@@ -1,5 +1,6 @@
 import { createHash } from "node:crypto";
-import { and, eq, like } from "drizzle-orm";
+import postgres from "postgres";
+import { and, eq, like, sql } from "drizzle-orm";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "~/db/client.server";
 import { checkRuns, outbox, uploadFiles, uploads } from "~/db/schema";
@@ -28,6 +29,19 @@ afterAll(async () => {
 const GDS = Buffer.from([0x00, 0x06, 0x00, 0x02, 0x02, 0x58, 0x00, 0x1c, 0x01, 0x02]);
 const ZIP = Buffer.concat([Buffer.from([0x50, 0x4b, 0x03, 0x04]), Buffer.from("not really deflated but the head is a zip")]);
 const PNG = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13]);
+
+/** Polls (with a deadline, no fixed sleep) until `n` sessions of this database wait for a row lock on uploads or entries. */
+async function lockWaiters(n: number, timeoutMs = 20_000): Promise<void> {
+  const until = Date.now() + timeoutMs;
+  while (Date.now() < until) {
+    const rows = await db().execute<{ n: number }>(
+      sql`select count(*)::int as n from pg_stat_activity where datname = current_database() and wait_event_type = 'Lock' and query ~* '(uploads|entries).*for update'`,
+    );
+    if (rows[0].n >= n) return;
+    await new Promise((r) => setTimeout(r, 20));
+  }
+  throw new Error(`fewer than ${n} sessions waited for the lock within ${timeoutMs} ms`);
+}
 
 /** A whole upload of bundle + layout through the API. */
 async function uploadPair(s: Awaited<ReturnType<typeof makeEntrySetup>>, bundle = ZIP, layout = GDS) {
@@ -104,21 +118,36 @@ describe("a complete upload", () => {
 
   it("serializes racing completions: one number per upload, never one number for two uploads", async () => {
     const s = await makeEntrySetup();
-    // Two uploads ready at once (the second start discards pending ones, so prepare them through the service in turn).
+    // Two different uploads both ready to complete at once. Starting the second discards the first (and deletes its
+    // stored objects), so the first is put back to pending by hand: completing reads only the rows, and the point
+    // here is the entry lock that hands out numbers, not how two uploads came to be ready.
     const a = await uploadPair(s);
-    const aDone = complete(s.cookie, a);
     const b = await uploadPair(s);
-    const [ra, rb] = await Promise.all([aDone, complete(s.cookie, b)]);
-    const numbers = [ra.body.number, rb.body.number].sort();
-    expect(ra.status === 200 || ra.body.error?.code === "upload_discarded").toBe(true);
-    if (ra.status === 200) expect(numbers).toEqual([1, 2]);
-    // Race on purpose: the same upload completed twice in parallel gets one number.
+    await db().update(uploads).set({ state: "pending" }).where(eq(uploads.id, a));
+    // Both completions must really be in flight together: a connection of the test's own holds both upload rows
+    // until both requests wait for a lock, then lets go. Without the entry lock in completeUpload both would read
+    // the same highest number and one would hit the unique index (a 500 here); with it they take turns.
+    const holder = postgres(process.env.DATABASE_URL!, { max: 1, onnotice: () => {} });
+    const racing = await holder
+      .begin(async (t) => {
+        await t`select id from uploads where id in (${a}, ${b}) for update`;
+        const both = Promise.all([complete(s.cookie, a), complete(s.cookie, b)]);
+        await lockWaiters(2);
+        return { both }; // not awaited in here: they wait for this transaction to end
+      })
+      .finally(() => holder.end());
+    const [ra, rb] = await racing.both;
+    expect([ra.status, rb.status]).toEqual([200, 200]);
+    expect([ra.body.number, rb.body.number].sort()).toEqual([1, 2]);
+    expect([ra.body.state, rb.body.state]).toEqual(["complete", "complete"]);
+    // The same upload completed twice in parallel: both answers 200 with the one number it got, one of them "already".
     const c = await uploadPair(s);
     const [r1, r2] = await Promise.all([complete(s.cookie, c), complete(s.cookie, c)]);
-    expect(r1.body.number).toBe(r2.body.number);
+    expect([r1.status, r2.status]).toEqual([200, 200]);
+    expect([r1.body.number, r2.body.number]).toEqual([3, 3]);
+    expect([Boolean(r1.body.already), Boolean(r2.body.already)].sort()).toEqual([false, true]);
     const rows = await db().select().from(uploads).where(eq(uploads.entryId, s.entry.id));
-    const recorded = rows.filter((r) => r.state === "complete").map((r) => r.number);
-    expect(new Set(recorded).size).toBe(recorded.length);
+    expect(rows.filter((r) => r.state === "complete").map((r) => r.number).sort()).toEqual([1, 2, 3]);
   });
 
   it("refuses to complete without bundle and layout, and refuses a file whose bytes do not match its kind", async () => {

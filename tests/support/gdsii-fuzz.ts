@@ -1,5 +1,5 @@
-import { GdsiiError } from "./errors";
-import { readLayout } from "./reader";
+import { GdsiiError } from "~/gdsii/errors";
+import { readLayout } from "~/gdsii/reader";
 
 export interface FuzzOutcome {
   summaries: number;

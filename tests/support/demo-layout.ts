@@ -1,6 +1,6 @@
 import { DEMO_RULESET, type Ruleset } from "~/rules/ruleset";
-import { DIE_OUTLINE_LAYER } from "./conventions";
-import { writeLayout, type GdsElement, type GdsLibrary, type GdsStructure } from "./writer";
+import { DIE_OUTLINE_LAYER } from "~/gdsii/conventions";
+import { writeLayout, type GdsElement, type GdsLibrary, type GdsStructure } from "~/gdsii/writer";
 
 /**
  * An invented standard-cell style layout for demo entries and tests: a die of the ruleset's tile

@@ -1,0 +1,2 @@
+ALTER TABLE "competitions" ALTER COLUMN "order_seed" SET DEFAULT 'v2:' || md5(random()::text);--> statement-breakpoint
+ALTER TABLE "jury_assignments" ALTER COLUMN "order_seed" SET DEFAULT 'v2:' || md5(random()::text);
