@@ -2,7 +2,7 @@ import { and, eq, exists, sql } from "drizzle-orm";
 import { isAdmin, type SessionUser } from "~/auth/guards.server";
 import { db } from "~/db/client.server";
 import { competitions, eventRoles, events, juryAssignments } from "~/db/schema";
-import { isUuid } from "./errors";
+import { isId } from "~/security/ids";
 
 /**
  * Who may see which competition for judging. Every lookup takes the caller with it, so an id from another
@@ -38,7 +38,7 @@ const fields = {
 
 /** The competition if `userId` is a judge of its event and assigned to its jury; with the judge's own order seed. */
 export async function competitionForJudge(userId: string, competitionId: string | undefined): Promise<(JudgingCompetition & { assignmentSeed: string }) | null> {
-  if (!isUuid(competitionId)) return null;
+  if (!isId(competitionId)) return null;
   const [row] = await db()
     .select({ ...fields, assignmentSeed: juryAssignments.orderSeed })
     .from(competitions)
@@ -77,7 +77,7 @@ export function judgingView(c: typeof competitions.$inferSelect, e: typeof event
 
 /** The competition if the user organizes its event (a platform admin organizes every event). */
 export async function competitionForOrganizer(user: SessionUser, competitionId: string | undefined): Promise<JudgingCompetition | null> {
-  if (!isUuid(competitionId)) return null;
+  if (!isId(competitionId)) return null;
   const admin = isAdmin(user);
   const [row] = await db()
     .select(fields)

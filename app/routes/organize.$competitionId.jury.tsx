@@ -5,9 +5,9 @@ import { z } from "zod";
 import { FormErrors } from "~/components/FormField";
 import { StateBadge } from "~/components/StateBadge";
 import { env } from "~/env.server";
-import { JudgingError } from "~/judging/errors";
 import { inviteSchema, lockSchema, optionsSchema, organizerConflictSchema } from "~/judging/forms";
-import { pageCall, requireJuryOrganizer } from "~/judging/http.server";
+import { attempt, formReply, pageCall } from "~/errors/http.server";
+import { requireJuryOrganizer } from "~/judging/http.server";
 import { declareConflict, inviteJudge, juryOverview, removeConflict, revokeInvite, setAssignment, setJudgingLocked, setJudgingOptions } from "~/judging/jury.server";
 import type { Route } from "./+types/organize.$competitionId.jury";
 import { readForm } from "~/api/body.server";
@@ -32,12 +32,8 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   if (intent === "invite") {
     const s = parseWithZod(form, { schema: inviteSchema });
     if (s.status !== "success") return { intent, result: s.reply() };
-    try {
-      await inviteJudge({ competition: c, email: s.value.email, invitedBy: user.id, appUrl: env().APP_URL });
-    } catch (e) {
-      if (e instanceof JudgingError && e.fieldErrors) return { intent, result: s.reply({ fieldErrors: e.fieldErrors }) };
-      throw e;
-    }
+    const out = await attempt(() => inviteJudge({ competition: c, email: s.value.email, invitedBy: user.id, appUrl: env().APP_URL }));
+    if (!out.ok) return { intent, result: formReply(s, out.error) };
     return { intent, result: s.reply({ resetForm: true }), notice: `Invitation sent to ${s.value.email}.` };
   }
   if (intent === "conflict") {
