@@ -15,6 +15,7 @@ import { checkKind, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } fro
 import { rulesetOf } from "./service.server";
 import { isId } from "~/security/ids";
 import { gzipLayoutProblem } from "./layout-gzip.server";
+import { AppError } from "~/errors/app-error";
 
 /**
  * Uploads straight from the browser to S3 with presigned multipart parts. The server plans the parts, signs them,
@@ -24,9 +25,7 @@ import { gzipLayoutProblem } from "./layout-gzip.server";
  * Pending and abandoned rows are not uploads: they carry a negative placeholder number (the column is required and
  * unique per entry); real uploads are numbered 1, 2, 3 … when they are completed, complete or late.
  */
-export type Refusal = { ok: false; status: number; code: string; message: string; fieldErrors?: Record<string, string[]> };
-export type Outcome<T> = ({ ok: true } & T) | Refusal;
-const refuse = (status: number, code: string, message: string, fieldErrors?: Record<string, string[]>): Refusal => ({ ok: false, status, code, message, fieldErrors });
+const refuse = (status: number, code: string, message: string, fieldErrors?: Record<string, string[]>) => new AppError(status, code, message, fieldErrors ? { fieldErrors } : {});
 
 export interface ClaimedFile {
   kind: FileKind;
@@ -70,7 +69,7 @@ function planOf(f: typeof uploadFiles.$inferSelect): PlannedFile {
   return { id: f.id, kind: f.kind, filename: f.filename, size: f.claimedBytes, ...partPlan(f.claimedBytes), state: f.state };
 }
 
-function uploadsOpen(c: typeof competitions.$inferSelect, e: typeof entries.$inferSelect, now: Date): Refusal | null {
+function uploadsOpen(c: typeof competitions.$inferSelect, e: typeof entries.$inferSelect, now: Date): AppError | null {
   if (e.state !== "active") return refuse(409, "entry_not_active", `This entry is ${e.state}; it takes no uploads.`);
   const when = timelinessOf(now, c.deadlineAt, c.graceMinutes, e.lateUntil);
   const stateOpen = c.state === "open" || (when === "exception" && EXCEPTION_STATES.includes(c.state));
@@ -137,15 +136,15 @@ export function claimProblems(files: ClaimedFile[], ruleset: ReturnType<typeof r
  * only once the store has accepted every file of the new one: with the store down, the old upload stays
  * as it was and can still be resumed.
  */
-export async function startUpload(entryId: string, userId: string, files: ClaimedFile[], now = new Date(), source: UploadSource = {}): Promise<Outcome<{ uploadId: string; files: PlannedFile[] }>> {
+export async function startUpload(entryId: string, userId: string, files: ClaimedFile[], now = new Date(), source: UploadSource = {}): Promise<{ uploadId: string; files: PlannedFile[] }> {
   const row = await entryForUploader(entryId, userId);
-  if (!row) return refuse(404, "not_found", "That entry was not found.");
+  if (!row) throw refuse(404, "not_found", "That entry was not found.");
   const closed = uploadsOpen(row.competition, row.entry, now);
-  if (closed) return closed;
+  if (closed) throw closed;
   const ruleset = rulesetOf(row.competition.ruleset);
   const fromSource = sourceProblems(source, ruleset, files);
   const problems = { ...claimProblems(files, ruleset, requiredKinds(Boolean(source.repository))), ...fromSource.problems };
-  if (Object.keys(problems).length) return refuse(400, "files_refused", "Some files cannot be uploaded.", problems);
+  if (Object.keys(problems).length) throw refuse(400, "files_refused", "Some files cannot be uploaded.", problems);
 
   const uploadId = crypto.randomUUID();
   const values: Awaited<ReturnType<typeof plannedFileValues>>[] = [];
@@ -166,25 +165,25 @@ export async function startUpload(entryId: string, userId: string, files: Claime
     return { rows, stale };
   });
   await abortFilesOf(stale.map((s) => s.id));
-  return { ok: true, uploadId, files: rows.map(planOf) };
+  return { uploadId, files: rows.map(planOf) };
 }
 
 /** Adds a file to a pending upload, or replaces one that was refused or is still unfinished. */
-export async function putFile(uploadId: string, userId: string, f: ClaimedFile, now = new Date()): Promise<Outcome<{ file: PlannedFile }>> {
+export async function putFile(uploadId: string, userId: string, f: ClaimedFile, now = new Date()): Promise<{ file: PlannedFile }> {
   const up = await uploadForUploader(uploadId, userId);
-  if (!up) return refuse(404, "not_found", "That upload was not found.");
-  if (up.upload.state !== "pending") return refuse(409, "upload_closed", "This upload is finished; start a new one.");
+  if (!up) throw refuse(404, "not_found", "That upload was not found.");
+  if (up.upload.state !== "pending") throw refuse(409, "upload_closed", "This upload is finished; start a new one.");
   const closed = uploadsOpen(up.competition, up.entry, now);
-  if (closed) return closed;
+  if (closed) throw closed;
   const problems = claimProblems([f], rulesetOf(up.competition.ruleset), []);
   if (f.kind === "bundle" && up.upload.repositoryUrl) problems.bundle = ["This upload takes its sources from the repository link; it has no bundle file."];
-  if (Object.keys(problems).length) return refuse(400, "files_refused", "This file cannot be uploaded.", problems);
+  if (Object.keys(problems).length) throw refuse(400, "files_refused", "This file cannot be uploaded.", problems);
   const [old] = await db().select().from(uploadFiles).where(and(eq(uploadFiles.uploadId, uploadId), eq(uploadFiles.kind, f.kind)));
   if (old) {
     await abortFile(old);
     await db().delete(uploadFiles).where(eq(uploadFiles.id, old.id));
   }
-  return { ok: true, file: planOf(await newFileRow(uploadId, up.entry.id, f)) };
+  return { file: planOf(await newFileRow(uploadId, up.entry.id, f)) };
 }
 
 export async function pendingUploadFiles(uploadId: string): Promise<PlannedFile[]> {
@@ -195,14 +194,14 @@ export async function pendingUploadFiles(uploadId: string): Promise<PlannedFile[
 type FileRow = typeof uploadFiles.$inferSelect;
 
 /** Presigned PUT URLs for the given part numbers of a file still uploading. */
-export async function signParts(file: FileRow, partNumbers: number[]): Promise<Outcome<{ urls: Record<number, string> }>> {
-  if (file.state !== "uploading" || !file.multipartUploadId) return refuse(409, "file_closed", "This file is no longer uploading.");
+export async function signParts(file: FileRow, partNumbers: number[]): Promise<{ urls: Record<number, string> }> {
+  if (file.state !== "uploading" || !file.multipartUploadId) throw refuse(409, "file_closed", "This file is no longer uploading.");
   const { partCount } = partPlan(file.claimedBytes);
   const bad = partNumbers.filter((n) => !Number.isInteger(n) || n < 1 || n > partCount);
-  if (bad.length) return refuse(400, "bad_part", `Parts must be numbered 1 to ${partCount}.`);
+  if (bad.length) throw refuse(400, "bad_part", `Parts must be numbered 1 to ${partCount}.`);
   const urls: Record<number, string> = {};
   for (const n of partNumbers) urls[n] = await presignPart(file.s3Key, file.multipartUploadId, n);
-  return { ok: true, urls };
+  return { urls };
 }
 
 /**
@@ -217,10 +216,10 @@ export async function storedParts(file: FileRow): Promise<{ partNumber: number; 
 }
 
 /** The browser reports a part S3 accepted (its ETag from the PUT response). Reporting a part again replaces it. */
-export async function recordPart(file: FileRow, part: { partNumber: number; etag: string; size: number }): Promise<Outcome<{ recorded: number }>> {
-  if (file.state !== "uploading" || !file.multipartUploadId) return refuse(409, "file_closed", "This file is no longer uploading.");
+export async function recordPart(file: FileRow, part: { partNumber: number; etag: string; size: number }): Promise<{ recorded: number }> {
+  if (file.state !== "uploading" || !file.multipartUploadId) throw refuse(409, "file_closed", "This file is no longer uploading.");
   const { partCount } = partPlan(file.claimedBytes);
-  if (part.partNumber < 1 || part.partNumber > partCount) return refuse(400, "bad_part", `Parts must be numbered 1 to ${partCount}.`);
+  if (part.partNumber < 1 || part.partNumber > partCount) throw refuse(400, "bad_part", `Parts must be numbered 1 to ${partCount}.`);
   // Sizes are not trusted here: the confirmation measures the assembled object in S3.
   const entry = JSON.stringify([part]);
   const [row] = await db()
@@ -231,8 +230,8 @@ export async function recordPart(file: FileRow, part: { partNumber: number; etag
     })
     .where(and(eq(uploadFiles.id, file.id), eq(uploadFiles.state, "uploading")))
     .returning({ parts: uploadFiles.parts });
-  if (!row) return refuse(409, "file_closed", "This file is no longer uploading.");
-  return { ok: true, recorded: row.parts.length };
+  if (!row) throw refuse(409, "file_closed", "This file is no longer uploading.");
+  return { recorded: row.parts.length };
 }
 
 export interface ConfirmedFile {
@@ -248,15 +247,15 @@ export interface ConfirmedFile {
  * Finishes one file: assembles its parts (all must be stored), then confirms the object from S3 itself — stored size
  * against the ruleset, media type sniffed from the bytes, SHA-256 by streaming. A refused file's object is deleted.
  */
-export async function confirmFile(file: FileRow, ruleset: ReturnType<typeof rulesetOf>): Promise<Outcome<{ file: ConfirmedFile }>> {
+export async function confirmFile(file: FileRow, ruleset: ReturnType<typeof rulesetOf>): Promise<{ file: ConfirmedFile }> {
   const done = (f: FileRow): ConfirmedFile => ({ id: f.id, kind: f.kind, filename: f.filename, sizeBytes: f.sizeBytes ?? 0, sha256: f.sha256 ?? "", mediaType: f.mediaType ?? "" });
-  if (file.state === "confirmed") return { ok: true, file: done(file) };
-  if (file.state === "rejected") return refuse(422, "file_refused", file.rejectReason ?? "This file was refused.");
-  if (!file.multipartUploadId) return refuse(409, "file_closed", "This file has no upload in progress.");
+  if (file.state === "confirmed") return { file: done(file) };
+  if (file.state === "rejected") throw refuse(422, "file_refused", file.rejectReason ?? "This file was refused.");
+  if (!file.multipartUploadId) throw refuse(409, "file_closed", "This file has no upload in progress.");
   const { partCount } = partPlan(file.claimedBytes);
   const parts = await storedParts(file);
   const missing = Array.from({ length: partCount }, (_, i) => i + 1).filter((n) => !parts.some((p) => p.partNumber === n));
-  if (missing.length) return refuse(409, "parts_missing", `Parts ${missing.join(", ")} of "${file.filename}" are not stored yet; send them and confirm again.`);
+  if (missing.length) throw refuse(409, "parts_missing", `Parts ${missing.join(", ")} of "${file.filename}" are not stored yet; send them and confirm again.`);
   await completeMultipart(file.s3Key, file.multipartUploadId, parts.filter((p) => p.partNumber <= partCount));
   const stored = await hashObject(file.s3Key);
   const problem = sizeProblem(file.kind, file.filename, stored.size, ruleset, "stored") ?? (() => {
@@ -267,7 +266,7 @@ export async function confirmFile(file: FileRow, ruleset: ReturnType<typeof rule
   if (problem) {
     await deleteObjectIfAny(file.s3Key);
     await db().update(uploadFiles).set({ state: "rejected", rejectReason: problem, sizeBytes: stored.size, multipartUploadId: null }).where(eq(uploadFiles.id, file.id));
-    return refuse(422, "file_refused", problem);
+    throw refuse(422, "file_refused", problem);
   }
   const mediaType = (checkKind(file.kind, file.filename, stored.head) as { mediaType: string }).mediaType;
   const [row] = await db()
@@ -278,9 +277,10 @@ export async function confirmFile(file: FileRow, ruleset: ReturnType<typeof rule
   if (!row) {
     // A second confirmation raced this one and won; report what it recorded.
     const [now] = await db().select().from(uploadFiles).where(eq(uploadFiles.id, file.id));
-    return now.state === "confirmed" ? { ok: true, file: done(now) } : refuse(422, "file_refused", now.rejectReason ?? "This file was refused.");
+    if (now.state !== "confirmed") throw refuse(422, "file_refused", now.rejectReason ?? "This file was refused.");
+    return { file: done(now) };
   }
-  return { ok: true, file: done(row) };
+  return { file: done(row) };
 }
 
 export interface RecordedUpload {
@@ -294,21 +294,21 @@ export interface RecordedUpload {
 /**
  * Records the upload: all files confirmed, bundle and layout present. Under a lock on the entry row it takes the
  * next number and decides — on the server clock, now — whether it is on time (complete, counts, gets a check run)
- * or late (kept, never judged). Completing twice answers the same result.
+ * or late (kept, never judged). Completing twice answers the same result. Refusals throw AppError.
  */
-export async function completeUpload(uploadId: string, userId: string, now = new Date()): Promise<Outcome<{ upload: RecordedUpload; already: boolean }>> {
+export async function completeUpload(uploadId: string, userId: string, now = new Date()): Promise<{ upload: RecordedUpload; already: boolean }> {
   const up = await uploadForUploader(uploadId, userId);
-  if (!up) return refuse(404, "not_found", "That upload was not found.");
+  if (!up) throw refuse(404, "not_found", "That upload was not found.");
   const result = await db().transaction(async (tx) => {
     await tx.select({ id: entries.id }).from(entries).where(eq(entries.id, up.entry.id)).for("update");
     const [u] = await tx.select().from(uploads).where(eq(uploads.id, uploadId)).for("update");
-    if (u.state === "complete" || u.state === "late") return { ok: true as const, u, already: true };
-    if (u.state === "abandoned") return refuse(409, "upload_discarded", "This upload was discarded because a newer one was started.");
+    if (u.state === "complete" || u.state === "late") return { u, already: true };
+    if (u.state === "abandoned") throw refuse(409, "upload_discarded", "This upload was discarded because a newer one was started.");
     const files = await tx.select().from(uploadFiles).where(eq(uploadFiles.uploadId, uploadId));
     const unfinished = files.filter((f) => f.state !== "confirmed");
-    if (unfinished.length) return refuse(409, "files_unfinished", `Not every file is confirmed yet: ${unfinished.map((f) => `"${f.filename}" (${f.state})`).join(", ")}.`);
+    if (unfinished.length) throw refuse(409, "files_unfinished", `Not every file is confirmed yet: ${unfinished.map((f) => `"${f.filename}" (${f.state})`).join(", ")}.`);
     const missing = requiredKinds(Boolean(u.repositoryUrl)).filter((k) => !files.some((f) => f.kind === k));
-    if (missing.length) return refuse(409, "files_missing", `Missing: ${missing.map((k) => KIND_LABELS[k]).join(", ")}.`);
+    if (missing.length) throw refuse(409, "files_missing", `Missing: ${missing.map((k) => KIND_LABELS[k]).join(", ")}.`);
     const [c] = await tx.select().from(competitions).where(eq(competitions.id, up.competition.id));
     const [e] = await tx.select().from(entries).where(eq(entries.id, up.entry.id));
     const when = timelinessOf(now, c.deadlineAt, c.graceMinutes, e.lateUntil);
@@ -321,9 +321,8 @@ export async function completeUpload(uploadId: string, userId: string, now = new
       .returning();
     // A new upload that counts replaces the crew's earlier pick: the newest counts again until they pick anew.
     if (!late) await tx.update(entries).set({ finalUploadId: null }).where(eq(entries.id, up.entry.id));
-    return { ok: true as const, u: done, already: false };
+    return { u: done, already: false };
   });
-  if (!result.ok) return result;
   const { u } = result;
   const state = u.state as "complete" | "late";
   if (state === "complete") {
@@ -335,7 +334,7 @@ export async function completeUpload(uploadId: string, userId: string, now = new
     state === "complete"
       ? `Upload #${u.number} is recorded and counts${u.lateException ? " (under the organizer's late exception)" : ""}. Its check run is queued.`
       : `Upload #${u.number} arrived after the deadline. It is kept as late and does not count; the last on-time upload stays in the compo.`;
-  return { ok: true, already: result.already, upload: { uploadId: u.id, number: u.number, state, completedAt: (u.completedAt ?? now).toISOString(), message } };
+  return { already: result.already, upload: { uploadId: u.id, number: u.number, state, completedAt: (u.completedAt ?? now).toISOString(), message } };
 }
 
 /** The receipt to every crew member: every file's name, size and SHA-256, and the server time. Once per upload and person. */

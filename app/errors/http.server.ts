@@ -59,3 +59,9 @@ export function formReply<R>(submission: Replyable<R>, e: AppError): R {
   const formErrors = e.formErrors ?? (e.fieldErrors ? undefined : [e.message]);
   return submission.reply({ ...(e.fieldErrors ? { fieldErrors: e.fieldErrors } : {}), ...(formErrors ? { formErrors } : {}) });
 }
+
+/** A refusal for a page action without a conform form: the message, and the first field it names if any. */
+export function actionError(e: AppError): { error: string; field?: string } {
+  const field = e.fieldErrors ? Object.keys(e.fieldErrors)[0] : undefined;
+  return field ? { error: e.fieldErrors?.[field]?.[0] ?? e.message, field } : { error: e.message };
+}
