@@ -79,6 +79,28 @@ export async function createEntry(
   });
 }
 
+/** The entries of every crew `userId` is a member of, with crew, compo and event names (the "My entries" page). */
+export async function entriesOfMember(userId: string) {
+  return db()
+    .select({
+      id: entries.id,
+      title: entries.title,
+      feeState: entries.feeState,
+      state: entries.state,
+      crewId: entries.crewId,
+      competitionId: entries.competitionId,
+      crew: crews.name,
+      competition: competitions.title,
+      competitionState: competitions.state,
+      event: events.title,
+    })
+    .from(entries)
+    .innerJoin(crewMembers, and(eq(crewMembers.crewId, entries.crewId), eq(crewMembers.userId, userId)))
+    .innerJoin(crews, eq(crews.id, entries.crewId))
+    .innerJoin(competitions, eq(competitions.id, entries.competitionId))
+    .innerJoin(events, eq(events.id, competitions.eventId));
+}
+
 /** Entries of the crews `userId` belongs to, in the existing competitions they entered. */
 export async function entriesOfCrewsOf(crewIds: string[]) {
   if (crewIds.length === 0) return [];
