@@ -13,6 +13,8 @@ export interface AppErrorExtra {
   formErrors?: string[];
   /** Extra members beside `error` in an API answer (a 409's current value, so the client can show it). */
   details?: Record<string, unknown>;
+  /** Headers of the HTTP answer (a 429's Retry-After). */
+  headers?: Record<string, string>;
 }
 
 export class AppError extends Error {
@@ -21,6 +23,7 @@ export class AppError extends Error {
   readonly fieldErrors?: FieldErrors;
   readonly formErrors?: string[];
   readonly details?: Record<string, unknown>;
+  readonly headers?: Record<string, string>;
 
   constructor(status: number, code: string, message: string, extra: AppErrorExtra = {}) {
     super(message);
@@ -30,6 +33,7 @@ export class AppError extends Error {
     this.fieldErrors = extra.fieldErrors;
     this.formErrors = extra.formErrors;
     this.details = extra.details;
+    this.headers = extra.headers;
   }
 }
 

@@ -15,7 +15,7 @@ export function appErrorResponse(e: AppError): Response {
     error: { status: e.status, code: e.code, message: e.message, ...(e.fieldErrors ? { fieldErrors: e.fieldErrors } : {}) },
     ...e.details,
   };
-  return Response.json(body, { status: e.status, headers: { "Cache-Control": "no-store" } });
+  return Response.json(body, { status: e.status, headers: { ...e.headers, "Cache-Control": "no-store" } });
 }
 
 /** Runs a service call for a JSON route: an AppError is thrown as its API answer. */
@@ -33,7 +33,7 @@ export async function pageCall<T>(fn: () => Promise<T>): Promise<T> {
   try {
     return await fn();
   } catch (e) {
-    if (e instanceof AppError) throw data({ message: e.message }, { status: e.status });
+    if (e instanceof AppError) throw data({ message: e.message }, { status: e.status, headers: e.headers });
     throw e;
   }
 }

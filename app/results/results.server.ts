@@ -1,4 +1,5 @@
 import { createHmac } from "node:crypto";
+import { AppError } from "~/errors/app-error";
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { audit } from "~/audit/log.server";
 import { db } from "~/db/client.server";
@@ -180,12 +181,13 @@ export async function publishedResults(competitionId: string, version?: number):
   return r ? toVersion(r) : null;
 }
 
-export class PublishError extends Error {
+/** A refused publication (an AppError): about the note field, or about the compo's state. */
+export class PublishError extends AppError {
   constructor(
     readonly field: "note" | "state",
     message: string,
   ) {
-    super(message);
+    super(field === "note" ? 400 : 409, field === "note" ? "invalid_body" : "not_publishable", message, field === "note" ? { fieldErrors: { note: [message] } } : {});
     this.name = "PublishError";
   }
 }
