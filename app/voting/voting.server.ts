@@ -28,7 +28,8 @@ export const CODE_ATTEMPT_LIMIT = 20;
 export const CODE_ATTEMPT_WINDOW_S = 60;
 export { MAX_CODES_PER_BATCH } from "./code-book.server";
 
-export type BallotMethod = "points" | "borda" | "schulze";
+import type { BallotMethod } from "./shapes";
+export type { BallotMethod };
 export type BallotContent = PointsBallot | RankedBallot;
 export type WindowStatus = "not-open" | "open" | "closed";
 
