@@ -1,21 +1,20 @@
-import { and, asc, eq, gt, inArray, lt, sql } from "drizzle-orm";
+import { and, eq, gt, inArray, lt, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { checkRuns, competitions, crewMembers, crews, entries, events, uploadFiles, uploads, user } from "~/db/schema";
-import { abortMultipart, completeMultipart, deleteObjectIfAny, hashObject, listStoredParts, presignPart, startMultipart } from "./storage.server";
+import { checkRuns, competitions, entries, uploadFiles, uploads } from "~/db/schema";
 import { queueCheckRun } from "~/conformance/queue.server";
-import { enqueueMail } from "~/mail/outbox.server";
-import { composeMail } from "~/mail/templates";
 import { env } from "~/env.server";
+import { AppError } from "~/errors/app-error";
+import { checkCommit, checkRepositoryLink } from "~/sources/repository-link";
 import { cutoffOf, EXCEPTION_STATES, timelinessOf, uploadWindowOpen } from "./deadline";
 import { checkLicence } from "./licence";
-import { checkCommit, checkRepositoryLink } from "~/sources/repository-link";
-import { formatBytes, partPlan, safeFilename, sizeProblem } from "./parts";
-import type { PlannedFile } from "./shapes";
-import { checkKind, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "./sniff";
+import { abortFile, abortFilesOf, newFileRow, planOf, plannedFileValues, type ClaimedFile } from "./multipart.server";
+import { sizeProblem } from "./parts";
+import { sendUploadReceipt } from "./receipt.server";
 import { rulesetOf } from "./service.server";
-import { isId } from "~/security/ids";
-import { gzipLayoutProblem } from "./layout-gzip.server";
-import { AppError } from "~/errors/app-error";
+import type { PlannedFile } from "./shapes";
+import { FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "./sniff";
+import { abortMultipart } from "./storage.server";
+import { entryForUploader, uploadForUploader } from "./upload-access.server";
 
 /**
  * Uploads straight from the browser to S3 with presigned multipart parts. The server plans the parts, signs them,
@@ -24,50 +23,12 @@ import { AppError } from "~/errors/app-error";
  *
  * Pending and abandoned rows are not uploads: they carry a negative placeholder number (the column is required and
  * unique per entry); real uploads are numbered 1, 2, 3 … when they are completed, complete or late.
+ *
+ * This module is the upload's state machine (pending → complete | late, or abandoned); who may upload is
+ * ./upload-access.server.ts, the files in the store ./multipart.server.ts, the receipt ./receipt.server.ts.
+ * Refusals are AppErrors.
  */
 const refuse = (status: number, code: string, message: string, fieldErrors?: Record<string, string[]>) => new AppError(status, code, message, fieldErrors ? { fieldErrors } : {});
-
-export interface ClaimedFile {
-  kind: FileKind;
-  filename: string;
-  size: number;
-}
-
-
-/** An entry the user may upload to (crew member), with its competition; null → 404. */
-export async function entryForUploader(entryId: string, userId: string) {
-  const [row] = await db()
-    .select({ entry: entries, competition: competitions })
-    .from(entries)
-    .innerJoin(competitions, eq(competitions.id, entries.competitionId))
-    .innerJoin(crewMembers, and(eq(crewMembers.crewId, entries.crewId), eq(crewMembers.userId, userId)))
-    .where(eq(entries.id, entryId));
-  return row ?? null;
-}
-
-/** A pending/recorded upload of an entry the user is a crew member of; null → 404. */
-export async function uploadForUploader(uploadId: string, userId: string) {
-  if (!isId(uploadId)) return null;
-  const [row] = await db()
-    .select({ upload: uploads, entry: entries, competition: competitions })
-    .from(uploads)
-    .innerJoin(entries, eq(entries.id, uploads.entryId))
-    .innerJoin(competitions, eq(competitions.id, entries.competitionId))
-    .innerJoin(crewMembers, and(eq(crewMembers.crewId, entries.crewId), eq(crewMembers.userId, userId)))
-    .where(eq(uploads.id, uploadId));
-  return row ?? null;
-}
-
-export async function fileForUploader(uploadId: string, fileId: string, userId: string) {
-  const up = await uploadForUploader(uploadId, userId);
-  if (!up || !isId(fileId)) return null;
-  const [file] = await db().select().from(uploadFiles).where(and(eq(uploadFiles.id, fileId), eq(uploadFiles.uploadId, uploadId)));
-  return file ? { ...up, file } : null;
-}
-
-function planOf(f: typeof uploadFiles.$inferSelect): PlannedFile {
-  return { id: f.id, kind: f.kind, filename: f.filename, size: f.claimedBytes, ...partPlan(f.claimedBytes), state: f.state };
-}
 
 function uploadsOpen(c: typeof competitions.$inferSelect, e: typeof entries.$inferSelect, now: Date): AppError | null {
   if (e.state !== "active") return refuse(409, "entry_not_active", `This entry is ${e.state}; it takes no uploads.`);
@@ -103,19 +64,6 @@ export function sourceProblems(source: UploadSource, ruleset: ReturnType<typeof 
   if (!licence.ok) (problems.licence ??= []).push(licence.message);
   else values.licence = licence.licence;
   return { problems, values };
-}
-
-/** Starts the file's multipart upload in the store; the row is written by the caller. */
-async function plannedFileValues(uploadId: string, entryId: string, f: ClaimedFile) {
-  const name = safeFilename(f.filename);
-  const key = `uploads/${entryId}/${uploadId}/${f.kind}/${crypto.randomUUID()}-${name}`;
-  const multipartUploadId = await startMultipart(key, "application/octet-stream");
-  return { uploadId, kind: f.kind, s3Key: key, filename: f.filename.slice(0, 200), claimedBytes: f.size, multipartUploadId, state: "uploading" as const };
-}
-
-async function newFileRow(uploadId: string, entryId: string, f: ClaimedFile) {
-  const [row] = await db().insert(uploadFiles).values(await plannedFileValues(uploadId, entryId, f)).returning();
-  return row;
 }
 
 /** Checks the claimed files against the ruleset before a byte is sent. */
@@ -186,103 +134,6 @@ export async function putFile(uploadId: string, userId: string, f: ClaimedFile, 
   return { file: planOf(await newFileRow(uploadId, up.entry.id, f)) };
 }
 
-export async function pendingUploadFiles(uploadId: string): Promise<PlannedFile[]> {
-  const rows = await db().select().from(uploadFiles).where(eq(uploadFiles.uploadId, uploadId)).orderBy(asc(uploadFiles.createdAt));
-  return rows.map(planOf);
-}
-
-type FileRow = typeof uploadFiles.$inferSelect;
-
-/** Presigned PUT URLs for the given part numbers of a file still uploading. */
-export async function signParts(file: FileRow, partNumbers: number[]): Promise<{ urls: Record<number, string> }> {
-  if (file.state !== "uploading" || !file.multipartUploadId) throw refuse(409, "file_closed", "This file is no longer uploading.");
-  const { partCount } = partPlan(file.claimedBytes);
-  const bad = partNumbers.filter((n) => !Number.isInteger(n) || n < 1 || n > partCount);
-  if (bad.length) throw refuse(400, "bad_part", `Parts must be numbered 1 to ${partCount}.`);
-  const urls: Record<number, string> = {};
-  for (const n of partNumbers) urls[n] = await presignPart(file.s3Key, file.multipartUploadId, n);
-  return { urls };
-}
-
-/**
- * What S3 already holds of a file: the browser sends only the rest (resume after a broken connection or a reload).
- * From S3's ListParts where the store has it; otherwise the parts browsers reported after each stored PUT (the
- * confirmation then checks the assembled object's size and hash, so a wrong report cannot slip through).
- */
-export async function storedParts(file: FileRow): Promise<{ partNumber: number; size: number; etag: string }[]> {
-  if (file.state !== "uploading" || !file.multipartUploadId) return [];
-  const listed = await listStoredParts(file.s3Key, file.multipartUploadId);
-  return (listed ?? file.parts).map(({ partNumber, size, etag }) => ({ partNumber, size, etag })).sort((a, b) => a.partNumber - b.partNumber);
-}
-
-/** The browser reports a part S3 accepted (its ETag from the PUT response). Reporting a part again replaces it. */
-export async function recordPart(file: FileRow, part: { partNumber: number; etag: string; size: number }): Promise<{ recorded: number }> {
-  if (file.state !== "uploading" || !file.multipartUploadId) throw refuse(409, "file_closed", "This file is no longer uploading.");
-  const { partCount } = partPlan(file.claimedBytes);
-  if (part.partNumber < 1 || part.partNumber > partCount) throw refuse(400, "bad_part", `Parts must be numbered 1 to ${partCount}.`);
-  // Sizes are not trusted here: the confirmation measures the assembled object in S3.
-  const entry = JSON.stringify([part]);
-  const [row] = await db()
-    .update(uploadFiles)
-    .set({
-      // One atomic update: drop an older report of the same part, append this one.
-      parts: sql`(select coalesce(jsonb_agg(p), '[]'::jsonb) from jsonb_array_elements(${uploadFiles.parts}) p where (p->>'partNumber')::int <> ${part.partNumber}) || ${entry}::jsonb`,
-    })
-    .where(and(eq(uploadFiles.id, file.id), eq(uploadFiles.state, "uploading")))
-    .returning({ parts: uploadFiles.parts });
-  if (!row) throw refuse(409, "file_closed", "This file is no longer uploading.");
-  return { recorded: row.parts.length };
-}
-
-export interface ConfirmedFile {
-  id: string;
-  kind: FileKind;
-  filename: string;
-  sizeBytes: number;
-  sha256: string;
-  mediaType: string;
-}
-
-/**
- * Finishes one file: assembles its parts (all must be stored), then confirms the object from S3 itself — stored size
- * against the ruleset, media type sniffed from the bytes, SHA-256 by streaming. A refused file's object is deleted.
- */
-export async function confirmFile(file: FileRow, ruleset: ReturnType<typeof rulesetOf>): Promise<{ file: ConfirmedFile }> {
-  const done = (f: FileRow): ConfirmedFile => ({ id: f.id, kind: f.kind, filename: f.filename, sizeBytes: f.sizeBytes ?? 0, sha256: f.sha256 ?? "", mediaType: f.mediaType ?? "" });
-  if (file.state === "confirmed") return { file: done(file) };
-  if (file.state === "rejected") throw refuse(422, "file_refused", file.rejectReason ?? "This file was refused.");
-  if (!file.multipartUploadId) throw refuse(409, "file_closed", "This file has no upload in progress.");
-  const { partCount } = partPlan(file.claimedBytes);
-  const parts = await storedParts(file);
-  const missing = Array.from({ length: partCount }, (_, i) => i + 1).filter((n) => !parts.some((p) => p.partNumber === n));
-  if (missing.length) throw refuse(409, "parts_missing", `Parts ${missing.join(", ")} of "${file.filename}" are not stored yet; send them and confirm again.`);
-  await completeMultipart(file.s3Key, file.multipartUploadId, parts.filter((p) => p.partNumber <= partCount));
-  const stored = await hashObject(file.s3Key);
-  const problem = sizeProblem(file.kind, file.filename, stored.size, ruleset, "stored") ?? (() => {
-    const k = checkKind(file.kind, file.filename, stored.head);
-    if (!k.ok) return k.message;
-    return file.kind === "layout" && k.mediaType === "application/gzip" ? gzipLayoutProblem(file.filename, stored.head) : null;
-  })();
-  if (problem) {
-    await deleteObjectIfAny(file.s3Key);
-    await db().update(uploadFiles).set({ state: "rejected", rejectReason: problem, sizeBytes: stored.size, multipartUploadId: null }).where(eq(uploadFiles.id, file.id));
-    throw refuse(422, "file_refused", problem);
-  }
-  const mediaType = (checkKind(file.kind, file.filename, stored.head) as { mediaType: string }).mediaType;
-  const [row] = await db()
-    .update(uploadFiles)
-    .set({ state: "confirmed", sizeBytes: stored.size, sha256: stored.sha256, mediaType, confirmedAt: new Date(), multipartUploadId: null })
-    .where(and(eq(uploadFiles.id, file.id), eq(uploadFiles.state, "uploading")))
-    .returning();
-  if (!row) {
-    // A second confirmation raced this one and won; report what it recorded.
-    const [now] = await db().select().from(uploadFiles).where(eq(uploadFiles.id, file.id));
-    if (now.state !== "confirmed") throw refuse(422, "file_refused", now.rejectReason ?? "This file was refused.");
-    return { file: done(now) };
-  }
-  return { file: done(row) };
-}
-
 export interface RecordedUpload {
   uploadId: string;
   number: number;
@@ -337,77 +188,9 @@ export async function completeUpload(uploadId: string, userId: string, now = new
   return { already: result.already, upload: { uploadId: u.id, number: u.number, state, completedAt: (u.completedAt ?? now).toISOString(), message } };
 }
 
-/** The receipt to every crew member: every file's name, size and SHA-256, and the server time. Once per upload and person. */
-export async function sendUploadReceipt(uploadId: string): Promise<void> {
-  const [row] = await db()
-    .select({ upload: uploads, entry: entries, competition: competitions, event: events, crew: crews })
-    .from(uploads)
-    .innerJoin(entries, eq(entries.id, uploads.entryId))
-    .innerJoin(competitions, eq(competitions.id, entries.competitionId))
-    .innerJoin(events, eq(events.id, competitions.eventId))
-    .innerJoin(crews, eq(crews.id, entries.crewId))
-    .where(eq(uploads.id, uploadId));
-  const files = await db().select().from(uploadFiles).where(eq(uploadFiles.uploadId, uploadId));
-  const members = await db().select({ id: user.id, email: user.email }).from(crewMembers).innerJoin(user, eq(user.id, crewMembers.userId)).where(eq(crewMembers.crewId, row.entry.crewId));
-  const at = row.upload.completedAt ?? new Date();
-  const local = new Intl.DateTimeFormat("en-GB", { dateStyle: "full", timeStyle: "long", timeZone: row.event.timeZone }).format(at);
-  const late = row.upload.state === "late";
-  const lines = receiptLines(row.upload, files);
-  for (const m of members) {
-    await enqueueMail(
-      composeMail(
-        m.email,
-        late ? `Late upload #${row.upload.number} for ${row.entry.title} (does not count)` : `Upload receipt: ${row.entry.title}, upload #${row.upload.number}`,
-        [
-          `Gatecrash recorded upload #${row.upload.number} of "${row.entry.title}" by ${row.crew.name} in ${row.competition.title} (${row.event.title}).`,
-          `Server time: ${at.toISOString()} (UTC) — ${local} (${row.event.timeZone}).`,
-          late
-            ? "It arrived after the deadline, so it is kept as late and is not judged. Your last on-time upload stays in the compo."
-            : row.upload.lateException
-              ? `It arrived after the deadline, within the late exception the organizer granted this entry (${row.entry.lateReason ?? "no reason given"}), so it counts. The jury sees the exception. Its check run is queued.`
-              : "It is the upload that counts now. Its check run is queued; the entry page shows the result.",
-          lines.join("\n\n"),
-          { text: "Open the entry", href: `${env().APP_URL}/entries/${row.entry.id}` },
-          row.upload.repositoryCommit
-            ? "Keep this mail: the commit hash and the SHA-256 sums prove what you submitted and when."
-            : "Keep this mail: the SHA-256 sums prove which files you submitted and when.",
-        ],
-        `upload-receipt:${uploadId}:${m.id}`,
-      ),
-    );
-  }
-}
-
 /** Bundle and layout, or layout alone when the sources come from a repository link. */
 function requiredKinds(fromRepository: boolean): readonly FileKind[] {
   return fromRepository ? REQUIRED_KINDS.filter((k) => k !== "bundle") : REQUIRED_KINDS;
-}
-
-/** What the receipt lists: the repository and commit (when the sources come from one), the licence, every file. */
-function receiptLines(u: typeof uploads.$inferSelect, files: FileRow[]): string[] {
-  const lines: string[] = [];
-  if (u.repositoryUrl && u.repositoryCommit) {
-    lines.push(`Sources from a repository (fetched by the check run at exactly this commit)\n  ${u.repositoryUrl}\n  commit ${u.repositoryCommit}`);
-  }
-  if (u.licence) lines.push(`Licence\n  ${u.licence}`);
-  for (const f of FILE_KINDS.flatMap((k) => files.filter((x) => x.kind === k))) {
-    lines.push(`${KIND_LABELS[f.kind]}\n  ${f.filename}\n  ${f.sizeBytes} bytes (${formatBytes(f.sizeBytes ?? 0)})\n  SHA-256 ${f.sha256}`);
-  }
-  return lines;
-}
-
-async function abortFile(f: FileRow): Promise<void> {
-  if (f.multipartUploadId) await abortMultipart(f.s3Key, f.multipartUploadId);
-}
-
-async function abortFilesOf(uploadIds: string[]): Promise<void> {
-  if (uploadIds.length === 0) return;
-  const files = await db().select().from(uploadFiles).where(inArray(uploadFiles.uploadId, uploadIds));
-  for (const f of files) {
-    await abortFile(f);
-    if (f.state === "confirmed") await deleteObjectIfAny(f.s3Key);
-  }
-  await db().update(uploadFiles).set({ multipartUploadId: null }).where(inArray(uploadFiles.uploadId, uploadIds));
 }
 
 /** The entrant discards an unfinished upload: its stored parts are aborted and it is marked abandoned. */
@@ -427,3 +210,4 @@ export async function sweepStaleUploads(maxAgeMs = 24 * 3600_000, now = new Date
   await abortFilesOf(res.map((r) => r.id));
   return res.length;
 }
+

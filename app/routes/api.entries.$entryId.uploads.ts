@@ -1,7 +1,8 @@
 import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
 import { apiCall } from "~/errors/http.server";
 import { okJson, startUploadSchema } from "~/entries/api.server";
-import { entryForUploader, startUpload } from "~/entries/uploads.server";
+import { entryForUploader } from "~/entries/upload-access.server";
+import { startUpload } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.entries.$entryId.uploads";
 
 /** POST: start an upload of an entry (crew members): claimed files are checked against the ruleset first. */

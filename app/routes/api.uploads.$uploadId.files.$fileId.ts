@@ -2,7 +2,8 @@ import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api
 import { apiCall } from "~/errors/http.server";
 import { fileActionSchema, okJson } from "~/entries/api.server";
 import { rulesetOf } from "~/entries/service.server";
-import { confirmFile, fileForUploader, recordPart, signParts, storedParts } from "~/entries/uploads.server";
+import { confirmFile, recordPart, signParts, storedParts } from "~/entries/multipart.server";
+import { fileForUploader } from "~/entries/upload-access.server";
 import type { Route } from "./+types/api.uploads.$uploadId.files.$fileId";
 
 /**

@@ -1,7 +1,8 @@
 import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
 import { apiCall } from "~/errors/http.server";
 import { claimedFileSchema, okJson } from "~/entries/api.server";
-import { putFile, uploadForUploader } from "~/entries/uploads.server";
+import { uploadForUploader } from "~/entries/upload-access.server";
+import { putFile } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.uploads.$uploadId.files";
 
 /** POST: add a file to a pending upload, or replace one that was refused (crew members). */

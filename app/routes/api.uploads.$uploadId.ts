@@ -1,7 +1,9 @@
 import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
 import { apiCall } from "~/errors/http.server";
 import { okJson, uploadActionSchema } from "~/entries/api.server";
-import { abandonUpload, completeUpload, pendingUploadFiles, uploadForUploader } from "~/entries/uploads.server";
+import { pendingUploadFiles } from "~/entries/multipart.server";
+import { uploadForUploader } from "~/entries/upload-access.server";
+import { abandonUpload, completeUpload } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.uploads.$uploadId";
 
 /** GET: an upload's state and files (to resume). POST {action: complete | abandon}. Crew members only; others get 404. */
