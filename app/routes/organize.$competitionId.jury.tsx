@@ -95,14 +95,6 @@ export default function OrganizeJury({ loaderData }: Route.ComponentProps) {
           <h1 className="text-display font-extrabold">Jury of {c.title}</h1>
           <StateBadge state={c.state} />
         </div>
-        <nav aria-label="Compo pages" className="mt-3 flex gap-2 text-sm">
-          <Link to={`/organize/${c.id}`} className="btn-quiet">
-            Dashboard
-          </Link>
-          <Link to={`/organize/${c.id}/standings`} className="btn-quiet">
-            Standings
-          </Link>
-        </nav>
         {actionData?.notice && (
           <p role="status" className="mt-4 rounded-md border border-pass bg-pass-soft px-3 py-2 text-sm font-medium text-pass">
             {actionData.notice}

@@ -143,14 +143,8 @@ export default function CompetitionDashboard({ loaderData }: Route.ComponentProp
             Tools
           </h2>
           <ul className="space-y-2 text-sm font-semibold">
-            <li><Link className="text-signal" to={`${base}/edit`}>Edit compo and ruleset</Link></li>
-            <li><Link className="text-signal" to={`${base}/entries`}>Entries</Link></li>
             <li><a className="text-signal" href={`${base}/ruleset.json`} download>Export ruleset.json</a></li>
             <li><Link className="text-signal" to={publicUrl}>{c.state === "draft" ? "Preview the public rules page" : "Public rules page"}</Link></li>
-            <li><Link className="text-signal" to={`${base}/jury`}>Jury</Link></li>
-            <li><Link className="text-signal" to={`${base}/standings`}>Standings</Link></li>
-            <li><Link className="text-signal" to={`${base}/audience`}>Audience vote</Link></li>
-            <li><Link className="text-signal" to={`${base}/results`}>Results</Link></li>
           </ul>
         </nav>
       </div>

@@ -47,8 +47,6 @@ export default function OrganizeResults({ loaderData, actionData }: Route.Compon
       <p className="kicker">Organize · {c.eventTitle}</p>
       <h1 className="mt-1 text-display font-extrabold">Results: {c.title}</h1>
       <nav aria-label="Competition tools" className="mt-4 flex flex-wrap gap-2">
-        <Link className="btn-quiet" to={`/organize/${c.id}/audience`}>Audience vote</Link>
-        <Link className="btn-quiet" to={`/organize/${c.id}/stage`}>Stage running order</Link>
         <Link className="btn-quiet" to={`/stage/${c.id}`}>Stage mode</Link>
         {correction && <Link className="btn-quiet" to={`${base}/results`}>Public results page</Link>}
       </nav>
