@@ -40,6 +40,4 @@ export class AppError extends Error {
 /** Shorthands for the refusals services use most. */
 export const notFound = (message: string, extra?: AppErrorExtra) => new AppError(404, "not_found", message, extra);
 export const conflict = (code: string, message: string, extra?: AppErrorExtra) => new AppError(409, code, message, extra);
-export const invalid = (fieldErrors: FieldErrors, message = "Some fields are not valid.", extra: Omit<AppErrorExtra, "fieldErrors"> = {}) =>
-  new AppError(400, "invalid_body", message, { ...extra, fieldErrors });
 export const forbidden = (code: string, message: string, extra?: AppErrorExtra) => new AppError(403, code, message, extra);
