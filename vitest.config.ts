@@ -5,7 +5,8 @@ import { fileURLToPath } from "node:url";
 export default defineConfig({
   resolve: { alias: { "~": fileURLToPath(new URL("./app", import.meta.url)) } },
   test: {
-    include: ["app/**/*.test.ts", "tests/integration/**/*.test.ts", "fakes/**/*.test.ts", "scripts/**/*.test.ts", "demo/**/*.test.ts"],
+    // Component tests (*.test.tsx) pick their DOM themselves: `// @vitest-environment happy-dom` on their first line.
+    include: ["app/**/*.test.ts", "app/**/*.test.tsx", "tests/integration/**/*.test.ts", "fakes/**/*.test.ts", "scripts/**/*.test.ts", "demo/**/*.test.ts"],
     environment: "node",
     testTimeout: 60_000,
     hookTimeout: 120_000,

@@ -1,7 +1,4 @@
-import { eq } from "drizzle-orm";
 import { createContext, data, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
-import { db } from "~/db/client.server";
-import { crewMembers } from "~/db/schema";
 import { auth, type AuthSession } from "./auth.server";
 
 /**
@@ -56,7 +53,3 @@ export async function requireAdmin(request: Request, context: RequestContext): P
   return user;
 }
 
-export async function crewIdsOf(userId: string): Promise<string[]> {
-  const rows = await db().select({ crewId: crewMembers.crewId }).from(crewMembers).where(eq(crewMembers.userId, userId));
-  return rows.map((r) => r.crewId);
-}

@@ -5,6 +5,7 @@ import { checkRuns, crewMembers, crews, entries, uploadFiles, uploads, user } fr
 import { enqueueMail } from "~/mail/outbox.server";
 import { composeMail } from "~/mail/templates";
 import { presignGet } from "~/storage/s3.server";
+import { conflict, notFound } from "~/errors/app-error";
 
 /** The organizer's view of a competition's entries: the table rows, file downloads, disqualification. */
 export interface EntryRow {
@@ -85,7 +86,7 @@ export async function disqualifyEntry(a: {
   entryId: string;
   reason: string;
   appUrl: string;
-}): Promise<{ ok: true; mailed: number } | { ok: false; status: 404 | 409; error: string }> {
+}): Promise<{ mailed: number }> {
   const [e] = await db()
     .update(entries)
     .set({ state: "disqualified", disqualifiedReason: a.reason, updatedAt: new Date() })
@@ -93,7 +94,7 @@ export async function disqualifyEntry(a: {
     .returning({ id: entries.id, title: entries.title, crewId: entries.crewId });
   if (!e) {
     const [exists] = await db().select({ state: entries.state }).from(entries).where(and(eq(entries.id, a.entryId), eq(entries.competitionId, a.competition.id)));
-    return exists ? { ok: false, status: 409, error: "This entry is already disqualified." } : { ok: false, status: 404, error: "No such entry in this compo." };
+    throw exists ? conflict("already_disqualified", "This entry is already disqualified.") : notFound("No such entry in this compo.");
   }
   const members = await db()
     .select({ id: user.id, email: user.email, name: user.name })
@@ -123,5 +124,5 @@ export async function disqualifyEntry(a: {
     subjectId: e.id,
     details: { reason: a.reason, mailed: members.map((m) => m.email) },
   });
-  return { ok: true, mailed: members.length };
+  return { mailed: members.length };
 }

@@ -1,17 +1,8 @@
+import type { CompetitionCard } from "./shapes";
 import { asc, desc, eq, inArray, ne } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { competitions, events } from "~/db/schema";
 
-export interface CompetitionCard {
-  id: string;
-  slug: string;
-  title: string;
-  state: string;
-  deadlineAt: string | null;
-  eventSlug: string;
-  eventTitle: string;
-  timeZone: string;
-}
 
 const cardFields = {
   id: competitions.id,

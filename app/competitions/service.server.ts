@@ -8,11 +8,14 @@ import { competitions, criteria, entries, eventRoles, events } from "~/db/schema
 import { slugify, type CompetitionValues, type EventForm } from "./forms";
 import { transitionProblem, type CompetitionState } from "./lifecycle";
 import { zonedWallTimeToUtc } from "./timezone";
+import { AppError, conflict, type FieldErrors } from "~/errors/app-error";
 
-/** Events and competitions: create, edit, ruleset import, lifecycle moves and the deadline sweep. */
+/** Events and competitions: create, edit, ruleset import, lifecycle moves and the deadline sweep. Refusals are AppErrors. */
 type CompetitionRow = typeof competitions.$inferSelect;
-export type FieldErrors = Record<string, string[]>;
-export type Saved<T> = { ok: true; value: T } | { ok: false; fieldErrors: FieldErrors; formErrors?: string[] };
+
+/** A refusal of one or more form fields (a taken address, a frozen rule). */
+const fieldsRefused = (code: string, fieldErrors: FieldErrors, formErrors?: string[]) =>
+  new AppError(409, code, formErrors?.[0] ?? Object.values(fieldErrors)[0]?.[0] ?? "Some fields cannot be saved.", { fieldErrors, formErrors });
 
 const wallToUtc = (v: string | undefined, tz: string): Date | null => {
   if (!v) return null;
@@ -32,7 +35,7 @@ function eventColumns(v: EventForm) {
 }
 
 /** Creates the event and makes its creator its organizer. */
-export async function createEvent(userId: string, v: EventForm): Promise<Saved<{ id: string; slug: string }>> {
+export async function createEvent(userId: string, v: EventForm): Promise<{ id: string; slug: string }> {
   const slug = v.slug || slugify(v.title);
   const created = await db().transaction(async (tx) => {
     const [e] = await tx
@@ -44,21 +47,21 @@ export async function createEvent(userId: string, v: EventForm): Promise<Saved<{
     await tx.insert(eventRoles).values({ eventId: e.id, userId, role: "organizer" });
     return e;
   });
-  if (!created) return { ok: false, fieldErrors: { slug: [`The address “${slug}” is taken by another event; choose another.`] } };
+  if (!created) throw fieldsRefused("slug_taken", { slug: [`The address “${slug}” is taken by another event; choose another.`] });
   await audit({ actorUserId: userId, eventId: created.id, action: "event.created", subjectType: "event", subjectId: created.id, details: { slug } });
-  return { ok: true, value: created };
+  return created;
 }
 
-export async function updateEvent(userId: string, eventId: string, v: EventForm): Promise<Saved<{ id: string; slug: string }>> {
+export async function updateEvent(userId: string, eventId: string, v: EventForm): Promise<{ id: string; slug: string }> {
   const [current] = await db().select().from(events).where(eq(events.id, eventId));
   const slug = v.slug || current.slug;
   if (slug !== current.slug) {
     const [clash] = await db().select({ id: events.id }).from(events).where(and(eq(events.slug, slug), ne(events.id, eventId)));
-    if (clash) return { ok: false, fieldErrors: { slug: [`The address “${slug}” is taken by another event; choose another.`] } };
+    if (clash) throw fieldsRefused("slug_taken", { slug: [`The address “${slug}” is taken by another event; choose another.`] });
   }
   await db().update(events).set({ slug, ...eventColumns(v) }).where(eq(events.id, eventId));
   await audit({ actorUserId: userId, eventId, action: "event.updated", subjectType: "event", subjectId: eventId, details: { slug } });
-  return { ok: true, value: { id: eventId, slug } };
+  return { id: eventId, slug };
 }
 
 export async function competitionsOfEvent(eventId: string) {
@@ -124,8 +127,8 @@ function editableColumns(v: CompetitionValues) {
   };
 }
 
-export async function createCompetition(userId: string, eventId: string, v: CompetitionValues): Promise<Saved<{ id: string }>> {
-  if (await slugTaken(eventId, v.slug)) return { ok: false, fieldErrors: { slug: [`This event already has a compo at “${v.slug}”.`] } };
+export async function createCompetition(userId: string, eventId: string, v: CompetitionValues): Promise<{ id: string }> {
+  if (await slugTaken(eventId, v.slug)) throw fieldsRefused("slug_taken", { slug: [`This event already has a compo at “${v.slug}”.`] });
   const id = await db().transaction(async (tx) => {
     const [c] = await tx
       .insert(competitions)
@@ -140,16 +143,16 @@ export async function createCompetition(userId: string, eventId: string, v: Comp
     await writeCriteria(tx, c.id, v.criteria);
     return c.id;
   });
-  if (!id) return { ok: false, fieldErrors: { slug: [`This event already has a compo at “${v.slug}”.`] } };
+  if (!id) throw fieldsRefused("slug_taken", { slug: [`This event already has a compo at “${v.slug}”.`] });
   await audit({ actorUserId: userId, eventId, action: "competition.created", subjectType: "competition", subjectId: id, details: { slug: v.slug } });
-  return { ok: true, value: { id } };
+  return { id };
 }
 
 /** States in which the rules entrants built against may no longer change. */
 export const FROZEN_STATES: CompetitionState[] = ["closed", "judging", "results"];
 
-export async function updateCompetition(userId: string, current: CompetitionRow, v: CompetitionValues): Promise<Saved<{ id: string }>> {
-  if (await slugTaken(current.eventId, v.slug, current.id)) return { ok: false, fieldErrors: { slug: [`This event already has a compo at “${v.slug}”.`] } };
+export async function updateCompetition(userId: string, current: CompetitionRow, v: CompetitionValues): Promise<{ id: string }> {
+  if (await slugTaken(current.eventId, v.slug, current.id)) throw fieldsRefused("slug_taken", { slug: [`This event already has a compo at “${v.slug}”.`] });
   const before = storedRuleset(current).ruleset;
   const rulesetChanged = JSON.stringify(before) !== JSON.stringify(v.ruleset) || current.ruleset == null;
   if (FROZEN_STATES.includes(current.state)) {
@@ -166,7 +169,7 @@ export async function updateCompetition(userId: string, current: CompetitionRow,
         return n.id === o.id && n.weight === o.weight && n.scaleMin === o.scaleMin && n.scaleMax === o.scaleMax;
       });
     if (current.state !== "closed" && !sameCriteria) fieldErrors.criteria = ["Judging has started: criteria can be renamed but not added, removed or re-weighted."];
-    if (Object.keys(fieldErrors).length) return { ok: false, fieldErrors, formErrors: ["Some changes are not allowed in this state; nothing was saved."] };
+    if (Object.keys(fieldErrors).length) throw fieldsRefused("frozen", fieldErrors, ["Some changes are not allowed in this state; nothing was saved."]);
   }
   await db().transaction(async (tx) => {
     await tx
@@ -187,30 +190,29 @@ export async function updateCompetition(userId: string, current: CompetitionRow,
     subjectId: current.id,
     details: { rulesetChanged, deadlineAt: v.deadlineAt?.toISOString() ?? null },
   });
-  return { ok: true, value: { id: current.id } };
+  return { id: current.id };
 }
 
 /** Replaces the ruleset with an imported one (already validated). */
-export async function importRuleset(userId: string, current: CompetitionRow, ruleset: Ruleset): Promise<Saved<{ version: number }>> {
-  if (FROZEN_STATES.includes(current.state)) return { ok: false, fieldErrors: { rulesetJson: ["Entries are closed: the ruleset is frozen."] } };
+export async function importRuleset(userId: string, current: CompetitionRow, ruleset: Ruleset): Promise<{ version: number }> {
+  if (FROZEN_STATES.includes(current.state)) throw fieldsRefused("frozen", { rulesetJson: ["Entries are closed: the ruleset is frozen."] });
   const version = current.ruleset == null ? current.rulesetVersion : current.rulesetVersion + 1;
   await db().update(competitions).set({ ruleset, rulesetVersion: version, updatedAt: new Date() }).where(eq(competitions.id, current.id));
   await audit({ actorUserId: userId, eventId: current.eventId, action: "competition.ruleset-imported", subjectType: "competition", subjectId: current.id, details: { version } });
-  return { ok: true, value: { version } };
+  return { version };
 }
 
 /** The organizer's move along the lifecycle, guarded and audited. */
-export async function moveCompetition(userId: string, current: CompetitionRow, to: CompetitionState, now = new Date()): Promise<{ ok: true } | { ok: false; error: string }> {
+export async function moveCompetition(userId: string, current: CompetitionRow, to: CompetitionState, now = new Date()): Promise<void> {
   const problem = transitionProblem(current, to, now);
-  if (problem) return { ok: false, error: problem };
+  if (problem) throw conflict("transition_refused", problem);
   const moved = await db()
     .update(competitions)
     .set({ state: to, updatedAt: now })
     .where(and(eq(competitions.id, current.id), eq(competitions.state, current.state)))
     .returning({ id: competitions.id });
-  if (!moved.length) return { ok: false, error: "Someone changed this compo's state a moment ago; look again." };
+  if (!moved.length) throw conflict("state_changed", "Someone changed this compo's state a moment ago; look again.");
   await audit({ actorUserId: userId, eventId: current.eventId, action: `competition.${to}`, subjectType: "competition", subjectId: current.id, details: { from: current.state, to } });
-  return { ok: true };
 }
 
 async function closeWhere(where: ReturnType<typeof and>, now: Date): Promise<CompetitionRow[]> {

@@ -1,19 +1,9 @@
+import type { CompetitionCard } from "~/competitions/shapes";
 import { Link } from "react-router";
 import { formatInZone } from "~/competitions/zone-format";
 import { StateBadge } from "./StateBadge";
 
-export interface CompetitionListItem {
-  id: string;
-  slug: string;
-  title: string;
-  state: string;
-  deadlineAt: string | null;
-  eventSlug: string;
-  eventTitle: string;
-  timeZone: string;
-}
-
-export function CompetitionList({ items, linkTo }: { items: CompetitionListItem[]; linkTo: (c: CompetitionListItem) => string }) {
+export function CompetitionList({ items, linkTo }: { items: CompetitionCard[]; linkTo: (c: CompetitionCard) => string }) {
   if (items.length === 0) return <p className="text-mute">Nothing here yet.</p>;
   return (
     <ul className="grid gap-3 sm:grid-cols-2">

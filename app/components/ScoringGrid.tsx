@@ -2,10 +2,10 @@ import { createSortedRowModel, rowSortingFeature, sortFn_alphanumeric, tableFeat
 import { useCallback, useEffect, useMemo, useReducer, useRef, useState, type KeyboardEvent } from "react";
 import { Link } from "react-router";
 import { moveCell, type GridMove, type Pos } from "~/judging/grid-keys";
-import { retryDelayMs } from "~/judging/retry";
+import { Autosave } from "~/judging/autosave";
 import { isFullyScored, parseTypedScore, scaleError, weightedTotal, type ScaleCriterion } from "~/judging/sheet";
 import type { GridData, GridRow } from "~/judging/types";
-import { ScoringMark, type SaveStatus } from "./ScoringMark";
+import { ScoringMark } from "./ScoringMark";
 
 /**
  * The judge's scoring grid: one TanStack table, keyboard first, every cell autosaved on its own.
@@ -17,234 +17,71 @@ import { ScoringMark, type SaveStatus } from "./ScoringMark";
  * Saving: each change is POSTed with the version the tab last saw. Network failures and 5xx keep the value
  * as "unsaved" and retry with back-off (and at once when the browser comes back online); a 409 shows the
  * other tab's value and lets the judge keep theirs or take it; a 400/403/423 marks the cell failed with the reason.
+ * Cells and notes go through the same state machine (app/judging/autosave.ts, tested there).
  */
-interface CellState {
-  value: number | null;
-  /** last value the server confirmed */
-  savedValue: number | null;
-  version: number;
-  status: SaveStatus;
-  message?: string;
-  theirs?: { value: number | null; version: number };
-  attempts: number;
-}
-
-interface NoteState {
-  note: string;
-  savedNote: string;
-  version: number;
-  status: SaveStatus;
-  message?: string;
-  theirs?: { note: string; version: number };
-  attempts: number;
-}
-
 type LiveRow = GridRow & { live: Record<string, number | null>; total: number | null };
 
 const features = tableFeatures({ rowSortingFeature, sortedRowModel: createSortedRowModel(), sortFns: { alphanumeric: sortFn_alphanumeric } });
 
 const key = (entryId: string, criterionId: string) => `${entryId}|${criterionId}`;
 
-interface ApiErrorShape {
-  error?: { status: number; code: string; message: string; fieldErrors?: Record<string, string[]> };
-  current?: { value?: number | null; note?: string; version: number };
-}
-
 export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { competitionId: string; data: GridData; locked: boolean }) {
   const { criteria } = data;
   const [, rerender] = useReducer((x: number) => x + 1, 0);
   const [locked, setLocked] = useState(lockedAtLoad);
 
-  // Live cell and note state lives in refs (async saves read and write it); `rerender` paints it.
-  const cells = useRef(new Map<string, CellState>());
-  const notes = useRef(new Map<string, NoteState>());
-  if (cells.current.size === 0 && notes.current.size === 0) {
+  // Live cell and note state lives in two autosave machines (app/judging/autosave.ts); `rerender` paints them.
+  const saver = useRef<{ cells: Autosave<number | null>; notes: Autosave<string> } | null>(null);
+  if (!saver.current) {
+    const post = (path: "scores" | "notes", body: unknown) =>
+      fetch(`/api/judging/${competitionId}/${path}`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) });
+    const common = { onChange: rerender, onLocked: () => setLocked(true) };
+    const cellSaver = new Autosave<number | null>({
+      ...common,
+      field: "value",
+      empty: null,
+      request: (k, value, version) => {
+        const [entryId, criterionId] = k.split("|");
+        return post("scores", { entryId, criterionId, value, version });
+      },
+    });
+    const noteSaver = new Autosave<string>({ ...common, field: "note", empty: "", request: (entryId, note, version) => post("notes", { entryId, note, version }) });
     for (const r of data.rows) {
       for (const c of criteria) {
         const cell = r.cells[c.id] ?? { value: null, version: 0 };
-        cells.current.set(key(r.entryId, c.id), { value: cell.value, savedValue: cell.value, version: cell.version, status: "saved", attempts: 0 });
+        cellSaver.add(key(r.entryId, c.id), cell.value, cell.version);
       }
-      notes.current.set(r.entryId, { note: r.note, savedNote: r.note, version: r.noteVersion, status: "saved", attempts: 0 });
+      noteSaver.add(r.entryId, r.note, r.noteVersion);
     }
+    saver.current = { cells: cellSaver, notes: noteSaver };
   }
-  const inFlight = useRef(new Set<string>());
-  const timers = useRef(new Map<string, ReturnType<typeof setTimeout>>());
+  const { cells, notes } = saver.current;
 
   const liveValues = useCallback(
-    (entryId: string) => Object.fromEntries(criteria.map((c) => [c.id, cells.current.get(key(entryId, c.id))?.value ?? null])),
-    [criteria],
+    (entryId: string) => Object.fromEntries(criteria.map((c) => [c.id, cells.get(key(entryId, c.id))?.value ?? null])),
+    [criteria, cells],
   );
-
-  // ---------- saving ----------
-  const sendCell = useCallback(
-    async (entryId: string, criterionId: string) => {
-      const k = key(entryId, criterionId);
-      const st = cells.current.get(k);
-      if (!st || inFlight.current.has(k)) return;
-      if (st.value === st.savedValue && st.status !== "failed" && st.status !== "unsaved") return;
-      inFlight.current.add(k);
-      const sentValue = st.value;
-      st.status = "saving";
-      rerender();
-      let res: Response | null = null;
-      try {
-        res = await fetch(`/api/judging/${competitionId}/scores`, {
-          method: "POST",
-          headers: { "content-type": "application/json" },
-          body: JSON.stringify({ entryId, criterionId, value: sentValue, version: st.version }),
-        });
-      } catch {
-        res = null; // the connection dropped: keep the value and retry
-      }
-      inFlight.current.delete(k);
-      const now = cells.current.get(k)!;
-      if (res && res.ok) {
-        const body = (await res.json()) as { saved: { value: number | null; version: number } };
-        now.version = body.saved.version;
-        now.savedValue = body.saved.value;
-        now.attempts = 0;
-        now.message = undefined;
-        now.theirs = undefined;
-        if (now.value !== body.saved.value) {
-          now.status = "unsaved";
-          rerender();
-          void sendCell(entryId, criterionId);
-          return;
-        }
-        now.status = "saved";
-      } else if (!res || res.status >= 500) {
-        now.status = "unsaved";
-        now.message = "Offline? Kept here, retrying.";
-        const delay = retryDelayMs(now.attempts);
-        now.attempts += 1;
-        clearTimeout(timers.current.get(k));
-        timers.current.set(k, setTimeout(() => void sendCell(entryId, criterionId), delay));
-      } else {
-        const body = (await res.json()) as ApiErrorShape;
-        if (res.status === 409 && body.current) {
-          now.status = "conflict";
-          now.theirs = { value: body.current.value ?? null, version: body.current.version };
-          now.version = body.current.version;
-          now.message = body.error?.message;
-        } else {
-          now.status = "failed";
-          now.message = body.error?.fieldErrors?.value?.join(" ") ?? body.error?.message ?? "Not saved.";
-          if (res.status === 423) setLocked(true);
-        }
-      }
-      rerender();
-    },
-    [competitionId],
-  );
-
-  const sendNote = useCallback(
-    async (entryId: string) => {
-      const k = `note|${entryId}`;
-      const st = notes.current.get(entryId);
-      if (!st || inFlight.current.has(k)) return;
-      inFlight.current.add(k);
-      const sent = st.note;
-      st.status = "saving";
-      rerender();
-      let res: Response | null = null;
-      try {
-        res = await fetch(`/api/judging/${competitionId}/notes`, {
-          method: "POST",
-          headers: { "content-type": "application/json" },
-          body: JSON.stringify({ entryId, note: sent, version: st.version }),
-        });
-      } catch {
-        res = null;
-      }
-      inFlight.current.delete(k);
-      const now = notes.current.get(entryId)!;
-      if (res && res.ok) {
-        const body = (await res.json()) as { saved: { note: string; version: number } };
-        now.version = body.saved.version;
-        now.savedNote = body.saved.note;
-        now.attempts = 0;
-        now.message = undefined;
-        now.theirs = undefined;
-        now.status = now.note === body.saved.note ? "saved" : "unsaved";
-        if (now.status === "unsaved") void sendNote(entryId);
-      } else if (!res || res.status >= 500) {
-        now.status = "unsaved";
-        now.message = "Offline? Kept here, retrying.";
-        const delay = retryDelayMs(now.attempts);
-        now.attempts += 1;
-        clearTimeout(timers.current.get(k));
-        timers.current.set(k, setTimeout(() => void sendNote(entryId), delay));
-      } else {
-        const body = (await res.json()) as ApiErrorShape;
-        if (res.status === 409 && body.current) {
-          now.status = "conflict";
-          now.theirs = { note: body.current.note ?? "", version: body.current.version };
-          now.version = body.current.version;
-          now.message = body.error?.message;
-        } else {
-          now.status = "failed";
-          now.message = body.error?.fieldErrors?.note?.join(" ") ?? body.error?.message ?? "Not saved.";
-          if (res.status === 423) setLocked(true);
-        }
-      }
-      rerender();
-    },
-    [competitionId],
-  );
-
-  const retryAll = useCallback(() => {
-    for (const [k, st] of cells.current) {
-      if (st.status === "unsaved") {
-        clearTimeout(timers.current.get(k));
-        const [entryId, criterionId] = k.split("|");
-        void sendCell(entryId, criterionId);
-      }
-    }
-    for (const [entryId, st] of notes.current) if (st.status === "unsaved") void sendNote(entryId);
-  }, [sendCell, sendNote]);
 
   useEffect(() => {
-    const pending = () => [...cells.current.values(), ...notes.current.values()].some((s) => s.status === "unsaved" || s.status === "saving");
+    const retryAll = () => {
+      cells.retryUnsaved();
+      notes.retryUnsaved();
+    };
     const onUnload = (e: BeforeUnloadEvent) => {
-      if (pending()) e.preventDefault();
+      if (cells.pending() + notes.pending() > 0) e.preventDefault();
     };
     window.addEventListener("online", retryAll);
     window.addEventListener("beforeunload", onUnload);
-    const t = timers.current;
     return () => {
       window.removeEventListener("online", retryAll);
       window.removeEventListener("beforeunload", onUnload);
-      for (const id of t.values()) clearTimeout(id);
+      cells.dispose();
+      notes.dispose();
     };
-  }, [retryAll]);
+  }, [cells, notes]);
 
-  const setScore = (entryId: string, criterionId: string, value: number | null) => {
-    const st = cells.current.get(key(entryId, criterionId))!;
-    st.value = value;
-    st.theirs = undefined;
-    if (value === st.savedValue && st.status !== "failed") {
-      st.status = "saved";
-      st.message = undefined;
-      rerender();
-      return;
-    }
-    st.status = "unsaved";
-    st.message = undefined;
-    st.attempts = 0;
-    rerender();
-    void sendCell(entryId, criterionId);
-  };
-
-  const setNote = (entryId: string, note: string) => {
-    const st = notes.current.get(entryId)!;
-    if (note === st.note && st.status === "saved") return;
-    st.note = note;
-    st.theirs = undefined;
-    st.status = "unsaved";
-    st.message = undefined;
-    rerender();
-    void sendNote(entryId);
-  };
+  const setScore = (entryId: string, criterionId: string, value: number | null) => cells.edit(key(entryId, criterionId), value);
+  const setNote = (entryId: string, note: string) => notes.edit(entryId, note);
 
   // ---------- the table ----------
   const [sorting, setSorting] = useState<SortingState>([]);
@@ -271,9 +108,9 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
         (c): ColumnDef<typeof features, LiveRow> => ({ id: `c:${c.id}`, header: c.name, accessorFn: (r) => r.live[c.id] ?? undefined, sortUndefined: "last" }),
       ),
       { id: "total", header: "Your total", accessorFn: (r) => r.total ?? undefined, sortUndefined: "last" },
-      { id: "note", header: "Note", accessorFn: (r) => notes.current.get(r.entryId)?.note ?? "", enableSorting: false },
+      { id: "note", header: "Note", accessorFn: (r) => notes.get(r.entryId)?.value ?? "", enableSorting: false },
     ],
-    [criteria],
+    [criteria, notes],
   );
 
   const table = useTable({
@@ -351,10 +188,10 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
     if (!row) return;
     const crit = criterionAt(pos.col);
     if (crit) {
-      const v = cells.current.get(key(row.entryId, crit.id))?.value;
+      const v = cells.get(key(row.entryId, crit.id))?.value;
       setEditing({ ...pos, text: text ?? (v === null || v === undefined ? "" : String(v)) });
     } else if (pos.col === noteCol) {
-      setEditing({ ...pos, text: text ?? notes.current.get(row.entryId)?.note ?? "" });
+      setEditing({ ...pos, text: text ?? notes.get(row.entryId)?.value ?? "" });
     }
   };
 
@@ -399,15 +236,14 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
 
   // ---------- figures for the header ----------
   const scoredCount = data.rows.filter((r) => isFullyScored(criteria, liveValues(r.entryId))).length;
-  const all = [...cells.current.values(), ...notes.current.values()];
-  const unsaved = all.filter((s) => s.status === "unsaved" || s.status === "saving").length;
-  const failed = all.filter((s) => s.status === "failed").length;
+  const unsaved = cells.pending() + notes.pending();
+  const failed = cells.count("failed") + notes.count("failed");
   const conflicted = data.rows.flatMap((r) =>
     criteria
-      .map((c) => ({ r, c, st: cells.current.get(key(r.entryId, c.id))! }))
+      .map((c) => ({ r, c, st: cells.get(key(r.entryId, c.id))! }))
       .filter((x) => x.st.status === "conflict"),
   );
-  const noteConflicts = data.rows.map((r) => ({ r, st: notes.current.get(r.entryId)! })).filter((x) => x.st.status === "conflict");
+  const noteConflicts = data.rows.map((r) => ({ r, st: notes.get(r.entryId)! })).filter((x) => x.st.status === "conflict");
 
   const toggleUnscored = (on: boolean) => {
     setOnlyUnscored(on ? new Set(data.rows.filter((r) => !isFullyScored(criteria, liveValues(r.entryId))).map((r) => r.entryId)) : null);
@@ -452,42 +288,21 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
             <p key={key(r.entryId, c.id)}>
               <strong>{r.title} · {c.name}</strong> was saved elsewhere as <strong>{fmt(st.theirs?.value ?? null) || "empty"}</strong>; yours is{" "}
               <strong>{fmt(st.value) || "empty"}</strong>.{" "}
-              <button type="button" className="btn-quiet px-2 py-0.5" onClick={() => void sendCell(r.entryId, c.id)}>
+              <button type="button" className="btn-quiet px-2 py-0.5" onClick={() => void cells.keepMine(key(r.entryId, c.id))}>
                 Keep mine
               </button>{" "}
-              <button
-                type="button"
-                className="btn-quiet px-2 py-0.5"
-                onClick={() => {
-                  st.value = st.theirs?.value ?? null;
-                  st.savedValue = st.value;
-                  st.status = "saved";
-                  st.theirs = undefined;
-                  st.message = undefined;
-                  rerender();
-                }}
-              >
+              <button type="button" className="btn-quiet px-2 py-0.5" onClick={() => cells.takeTheirs(key(r.entryId, c.id))}>
                 Take {fmt(st.theirs?.value ?? null) || "empty"}
               </button>
             </p>
           ))}
           {noteConflicts.map(({ r, st }) => (
             <p key={`note-${r.entryId}`}>
-              <strong>Your note on {r.title}</strong> was changed elsewhere to “{st.theirs?.note}”.{" "}
-              <button type="button" className="btn-quiet px-2 py-0.5" onClick={() => void sendNote(r.entryId)}>
+              <strong>Your note on {r.title}</strong> was changed elsewhere to “{st.theirs?.value}”.{" "}
+              <button type="button" className="btn-quiet px-2 py-0.5" onClick={() => void notes.keepMine(r.entryId)}>
                 Keep mine
               </button>{" "}
-              <button
-                type="button"
-                className="btn-quiet px-2 py-0.5"
-                onClick={() => {
-                  st.note = st.theirs?.note ?? "";
-                  st.savedNote = st.note;
-                  st.status = "saved";
-                  st.theirs = undefined;
-                  rerender();
-                }}
-              >
+              <button type="button" className="btn-quiet px-2 py-0.5" onClick={() => notes.takeTheirs(r.entryId)}>
                 Take theirs
               </button>
             </p>
@@ -597,7 +412,7 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
                         </td>
                       );
                     if (crit) {
-                      const st = cells.current.get(key(r.entryId, crit.id))!;
+                      const st = cells.get(key(r.entryId, crit.id))!;
                       const errId = `err-${r.entryId}-${crit.id}`;
                       return (
                         <td
@@ -642,7 +457,7 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
                           {total !== null && !full && <span className="ml-1 text-xs text-warn">partial</span>}
                         </td>
                       );
-                    const ns = notes.current.get(r.entryId)!;
+                    const ns = notes.get(r.entryId)!;
                     return (
                       <td key={cell.id} {...common} className={`min-w-48 px-2 py-1 ${isActive ? "bg-violet-soft" : ""}`} data-status={ns.status}>
                         {isEditing ? (
@@ -658,7 +473,7 @@ export function ScoringGrid({ competitionId, data, locked: lockedAtLoad }: { com
                           />
                         ) : (
                           <span className="flex items-center gap-1.5">
-                            <span className="truncate">{ns.note || <span className="text-mute">Enter to add a note</span>}</span>
+                            <span className="truncate">{ns.value || <span className="text-mute">Enter to add a note</span>}</span>
                             <ScoringMark status={ns.status} />
                           </span>
                         )}

@@ -1,9 +1,9 @@
+import type { SaveStatus } from "~/judging/autosave";
+
 /**
  * The save mark beside a grid cell. Each state has its own glyph as well as its own colour, so it reads
  * without colour vision, and a text for screen readers.
  */
-export type SaveStatus = "saved" | "saving" | "unsaved" | "failed" | "conflict";
-
 const MARKS: Record<SaveStatus, { glyph: string; text: string; cls: string }> = {
   saved: { glyph: "✓", text: "saved", cls: "text-pass" },
   saving: { glyph: "…", text: "saving", cls: "text-mute" },

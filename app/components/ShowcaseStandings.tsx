@@ -1,18 +1,10 @@
+import type { StandingRow } from "~/results/shapes";
+
 /** The standings table shared by the public results page and the organizer's preview. */
-export interface StandingsRowView {
-  place: number;
-  tied: boolean;
-  entryId: string;
-  title: string;
-  crew: string;
-  mixed: number;
-  jury: { score: number | null; place: number | null };
-  audience: { score: number | null; place: number | null };
-}
 
 const f = (n: number | null, d = 3) => (n === null ? "—" : n.toFixed(d));
 
-export function ShowcaseStandings({ rows, juryPct, audiencePct, caption }: { rows: StandingsRowView[]; juryPct: number; audiencePct: number; caption: string }) {
+export function ShowcaseStandings({ rows, juryPct, audiencePct, caption }: { rows: StandingRow[]; juryPct: number; audiencePct: number; caption: string }) {
   return (
     <div className="overflow-x-auto">
       <table className="w-full text-sm" data-testid="standings">

@@ -1,16 +1,9 @@
-/** The public figures of an entry, as a definition list. Values arrive from the loader; missing ones say so. */
-export interface ShowcaseStatsData {
-  flipFlops: number | null;
-  cells: number | null;
-  sourceLines: number | null;
-  tileShape: string | null;
-  tileSizeUm: { width: number; height: number } | null;
-  utilization: number | null;
-}
+import type { PublicStats } from "~/showcase/shapes";
 
+/** The public figures of an entry, as a definition list. Values arrive from the loader; missing ones say so. */
 const n = (v: number | null) => (v === null ? "not measured yet" : v.toLocaleString("en"));
 
-export function ShowcaseStats({ stats, tone = "light", compact = false }: { stats: ShowcaseStatsData; tone?: "light" | "dark"; compact?: boolean }) {
+export function ShowcaseStats({ stats, tone = "light", compact = false }: { stats: PublicStats; tone?: "light" | "dark"; compact?: boolean }) {
   const rows: [string, string][] = [
     ["Flip-flops", n(stats.flipFlops)],
     ["Cells", n(stats.cells)],

@@ -6,23 +6,25 @@ import { competitions, crewInvites, crewMembers, crews, entries, events, user } 
 import { env } from "~/env.server";
 import { enqueueMail } from "~/mail/outbox.server";
 import { composeMail } from "~/mail/templates";
+import { AppError, conflict, forbidden, notFound } from "~/errors/app-error";
 import { INVITE_DAYS, leaveDecision } from "./rules";
 
-/** Crews: create, invite by e-mail (token links; only the SHA-256 of a token is stored), accept, hand over, leave. */
+/**
+ * Crews: create, invite by e-mail (token links; only the SHA-256 of a token is stored), accept, hand over, leave.
+ * Refusals are AppErrors; one about a form field names it.
+ */
 export const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
-export type CrewResult<T> = { ok: true; value: T } | { ok: false; field?: string; message: string };
-
-export async function createCrew(userId: string, input: { handle: string; name: string }): Promise<CrewResult<{ id: string }>> {
+export async function createCrew(userId: string, input: { handle: string; name: string }): Promise<{ id: string }> {
   return db().transaction(async (tx) => {
     const [crew] = await tx
       .insert(crews)
       .values({ handle: input.handle, name: input.name, createdBy: userId })
       .onConflictDoNothing({ target: crews.handle })
       .returning({ id: crews.id });
-    if (!crew) return { ok: false as const, field: "handle", message: `The handle "${input.handle}" is taken. Pick another.` };
+    if (!crew) throw conflict("handle_taken", `The handle "${input.handle}" is taken. Pick another.`, { fieldErrors: { handle: [`The handle "${input.handle}" is taken. Pick another.`] } });
     await tx.insert(crewMembers).values({ crewId: crew.id, userId, role: "captain" });
-    return { ok: true as const, value: crew };
+    return crew;
   });
 }
 
@@ -63,13 +65,13 @@ export async function crewForMember(crewId: string, userId: string) {
   return { crew, myRole: me.role, members, invites, entries: crewEntries };
 }
 
-export async function inviteToCrew(crewId: string, actor: { id: string; name: string }, email: string, now = new Date()): Promise<CrewResult<{ inviteId: string }>> {
+export async function inviteToCrew(crewId: string, actor: { id: string; name: string }, email: string, now = new Date()): Promise<{ inviteId: string }> {
   const members = await db()
     .select({ email: user.email })
     .from(crewMembers)
     .innerJoin(user, eq(user.id, crewMembers.userId))
     .where(eq(crewMembers.crewId, crewId));
-  if (members.some((m) => m.email.toLowerCase() === email)) return { ok: false, field: "email", message: "That address already belongs to a member." };
+  if (members.some((m) => m.email.toLowerCase() === email)) throw conflict("already_member", "That address already belongs to a member.", { fieldErrors: { email: ["That address already belongs to a member."] } });
   const [crew] = await db().select().from(crews).where(eq(crews.id, crewId));
   const token = randomBytes(32).toString("base64url");
   const expiresAt = new Date(now.getTime() + INVITE_DAYS * 86400_000);
@@ -91,7 +93,7 @@ export async function inviteToCrew(crewId: string, actor: { id: string; name: st
     ),
   );
   await audit({ actorUserId: actor.id, action: "crew.invite", subjectType: "crew", subjectId: crewId, details: { email } });
-  return { ok: true, value: { inviteId: inv.id } };
+  return { inviteId: inv.id };
 }
 
 export async function inviteByToken(token: string) {
@@ -118,42 +120,41 @@ export const INVITE_PROBLEM_TEXT: Record<InviteProblem, string> = {
 };
 
 /** Accepting: any signed-in account joins. One use per token; joining twice is harmless. */
-export async function acceptInvite(token: string, userId: string, now = new Date()): Promise<CrewResult<{ crewId: string }>> {
+export async function acceptInvite(token: string, userId: string, now = new Date()): Promise<{ crewId: string }> {
   return db().transaction(async (tx) => {
     const [inv] = await tx.select().from(crewInvites).where(eq(crewInvites.tokenHash, hashToken(token))).for("update");
     const problem = inviteProblem(inv ?? null, now);
-    if (problem) return { ok: false as const, message: INVITE_PROBLEM_TEXT[problem] };
+    if (problem) throw new AppError(problem === "unknown" ? 404 : 410, `invite_${problem}`, INVITE_PROBLEM_TEXT[problem]);
     await tx.update(crewInvites).set({ acceptedAt: now }).where(eq(crewInvites.id, inv.id));
     await tx.insert(crewMembers).values({ crewId: inv.crewId, userId, role: "member" }).onConflictDoNothing();
-    return { ok: true as const, value: { crewId: inv.crewId } };
+    return { crewId: inv.crewId };
   });
 }
 
-export async function makeCaptain(crewId: string, actorId: string, memberId: string): Promise<CrewResult<null>> {
+export async function makeCaptain(crewId: string, actorId: string, memberId: string): Promise<void> {
   const [me] = await db().select().from(crewMembers).where(and(eq(crewMembers.crewId, crewId), eq(crewMembers.userId, actorId)));
-  if (me?.role !== "captain") return { ok: false, message: "Only a captain can hand over the captaincy." };
+  if (me?.role !== "captain") throw forbidden("not_captain", "Only a captain can hand over the captaincy.");
   const res = await db()
     .update(crewMembers)
     .set({ role: "captain" })
     .where(and(eq(crewMembers.crewId, crewId), eq(crewMembers.userId, memberId)))
     .returning();
-  if (res.length === 0) return { ok: false, message: "That person is not in this crew." };
+  if (res.length === 0) throw notFound("That person is not in this crew.");
   await audit({ actorUserId: actorId, action: "crew.captain", subjectType: "crew", subjectId: crewId, details: { memberId } });
-  return { ok: true, value: null };
 }
 
-export async function leaveCrew(crewId: string, userId: string): Promise<CrewResult<{ deletedCrew: boolean }>> {
+export async function leaveCrew(crewId: string, userId: string): Promise<{ deletedCrew: boolean }> {
   return db().transaction(async (tx) => {
     // Lock the crew so two members leaving at once cannot both pass the last-captain rule.
     await tx.select({ id: crews.id }).from(crews).where(eq(crews.id, crewId)).for("update");
     const members = await tx.select().from(crewMembers).where(eq(crewMembers.crewId, crewId));
     const me = members.find((m) => m.userId === userId);
-    if (!me) return { ok: false as const, message: "You are not in this crew." };
+    if (!me) throw notFound("You are not in this crew.");
     const [{ n }] = await tx.select({ n: count() }).from(entries).where(eq(entries.crewId, crewId));
     const decision = leaveDecision({ role: me.role, captains: members.filter((m) => m.role === "captain").length, members: members.length, entries: n });
-    if (!decision.ok) return { ok: false as const, message: decision.message };
+    if (!decision.ok) throw conflict("cannot_leave", decision.message);
     if (decision.deletesCrew) await tx.delete(crews).where(eq(crews.id, crewId));
     else await tx.delete(crewMembers).where(and(eq(crewMembers.crewId, crewId), eq(crewMembers.userId, userId)));
-    return { ok: true as const, value: { deletedCrew: decision.deletesCrew } };
+    return { deletedCrew: decision.deletesCrew };
   });
 }

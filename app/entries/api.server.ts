@@ -1,9 +1,8 @@
 import { z } from "zod";
-import { apiError, apiJson } from "~/api/json.server";
+import { apiJson } from "~/api/json.server";
 import { FILE_KINDS } from "./sniff";
-import type { Refusal } from "./uploads.server";
 
-/** Shapes of the upload JSON API (/api/entries/:entryId/uploads, /api/uploads/…) and its one error form. */
+/** Shapes of the upload JSON API (/api/entries/:entryId/uploads, /api/uploads/…); refusals go out through apiCall. */
 export const claimedFileSchema = z.object({
   kind: z.enum(FILE_KINDS),
   filename: z.string().trim().min(1, "The file needs a name.").max(200),
@@ -22,10 +21,6 @@ export const fileActionSchema = z.discriminatedUnion("action", [
   z.object({ action: z.literal("part"), partNumber: z.number().int().min(1).max(10_000), etag: z.string().min(1).max(200), size: z.number().int().min(0) }),
   z.object({ action: z.literal("confirm") }),
 ]);
-
-export function refusalResponse(r: Refusal): Response {
-  return apiError(r.status, r.code, r.message, r.fieldErrors);
-}
 
 export function okJson(body: unknown, status = 200): Response {
   return apiJson(body, { status });

@@ -7,6 +7,7 @@ import { competitions, entries, uploads } from "~/db/schema";
 import type { Ruleset } from "~/rules/ruleset";
 import { compareChecks, type UploadComparison } from "./compare";
 import { timelinessOf, uploadWindowOpen } from "./deadline";
+import { AppError } from "~/errors/app-error";
 import { chooseFinalUpload } from "./final-choice.server";
 import { grantLateException, lateExceptionOf, revokeLateException } from "./late-exception.server";
 
@@ -55,22 +56,24 @@ export function parseEntryIntent(form: FormData): EntryIntent | null {
   return parsed.success ? parsed.data : null;
 }
 
-export type IntentResult = { ok: true; notice: string } | { ok: false; error: string; field?: string };
-
-export async function pickFinal(entryId: string, userId: string, upload: number | "newest"): Promise<IntentResult> {
+/** The entry page's intents; each answers the notice to show, refusals are AppErrors. */
+export async function pickFinal(entryId: string, userId: string, upload: number | "newest"): Promise<{ notice: string }> {
   const out = await chooseFinalUpload(entryId, userId, upload === "newest" ? null : upload);
-  return out.ok ? { ok: true, notice: out.message } : { ok: false, error: out.message };
+  return { notice: out.message };
 }
 
 /** The organizer's form gives the end as a wall-clock time in the event's time zone. */
-export async function grantFromForm(entryId: string, organizerId: string, timeZone: string, until: string, reason: string): Promise<IntentResult> {
+export async function grantFromForm(entryId: string, organizerId: string, timeZone: string, until: string, reason: string): Promise<{ notice: string }> {
   const instant = zonedWallTimeToUtc(until, timeZone);
-  if (!instant.ok) return { ok: false, field: "until", error: instant.reason === "nonexistent" ? "The clocks skip that time in the event's time zone; pick another." : "Give the end as a date and time." };
+  if (!instant.ok) {
+    const message = instant.reason === "nonexistent" ? "The clocks skip that time in the event's time zone; pick another." : "Give the end as a date and time.";
+    throw new AppError(400, "invalid_body", message, { fieldErrors: { until: [message] } });
+  }
   const out = await grantLateException(entryId, organizerId, { until: instant.utc, reason });
-  return out.ok ? { ok: true, notice: out.message } : { ok: false, error: out.message, field: out.field };
+  return { notice: out.message };
 }
 
-export async function revokeFromForm(entryId: string, organizerId: string): Promise<IntentResult> {
+export async function revokeFromForm(entryId: string, organizerId: string): Promise<{ notice: string }> {
   const out = await revokeLateException(entryId, organizerId);
-  return out.ok ? { ok: true, notice: out.message } : { ok: false, error: out.message };
+  return { notice: out.message };
 }

@@ -3,47 +3,50 @@ import { audit } from "~/audit/log.server";
 import { db } from "~/db/client.server";
 import { competitions, entries, uploads, user } from "~/db/schema";
 import { countingUploadOf } from "./counting.server";
+import { AppError, conflict, notFound } from "~/errors/app-error";
 import { cutoffOf } from "./deadline";
 
 /**
  * An organizer's late exception for one entry (a crew whose power failed at the party, say): uploads until a
  * stated time after the deadline count, with the reason on record — in the audit log, on the entry page, on the
- * receipt and in front of the jury. The caller has checked that the user organizes the entry's event.
+ * receipt and in front of the jury. The caller has checked that the user organizes the entry's event. Refusals are
+ * AppErrors; one about the form's `until` or `reason` names that field.
  */
-export type ExceptionOutcome = { ok: true; message: string } | { ok: false; field?: "until" | "reason"; message: string };
+
+const fieldError = (field: "until" | "reason", message: string) => new AppError(400, "invalid_body", message, { fieldErrors: { [field]: [message] } });
 
 /** At most this long after the cutoff: an exception is for a mishap, not a second deadline. */
 export const MAX_EXCEPTION_HOURS = 72;
 
-export async function grantLateException(entryId: string, organizerId: string, input: { until: Date; reason: string }, now = new Date()): Promise<ExceptionOutcome> {
+export async function grantLateException(entryId: string, organizerId: string, input: { until: Date; reason: string }, now = new Date()): Promise<{ message: string }> {
   const reason = input.reason.trim();
-  if (reason.length < 5) return { ok: false, field: "reason", message: "State the reason (at least 5 characters): the jury and the crew see it." };
+  if (reason.length < 5) throw fieldError("reason", "State the reason (at least 5 characters): the jury and the crew see it.");
   const [row] = await db().select({ entry: entries, competition: competitions }).from(entries).innerJoin(competitions, eq(competitions.id, entries.competitionId)).where(eq(entries.id, entryId));
-  if (!row) return { ok: false, message: "That entry was not found." };
+  if (!row) throw notFound("That entry was not found.");
   const cutoff = cutoffOf(row.competition.deadlineAt, row.competition.graceMinutes);
-  if (!cutoff) return { ok: false, field: "until", message: "The competition has no deadline yet, so there is nothing to make an exception from." };
+  if (!cutoff) throw fieldError("until", "The competition has no deadline yet, so there is nothing to make an exception from.");
   if (Number.isNaN(input.until.getTime()) || input.until <= cutoff || input.until <= now) {
-    return { ok: false, field: "until", message: `The exception must end after the deadline (${cutoff.toISOString()}) and after now.` };
+    throw fieldError("until", `The exception must end after the deadline (${cutoff.toISOString()}) and after now.`);
   }
   if (input.until.getTime() - cutoff.getTime() > MAX_EXCEPTION_HOURS * 3600_000) {
-    return { ok: false, field: "until", message: `An exception can run at most ${MAX_EXCEPTION_HOURS} hours past the deadline.` };
+    throw fieldError("until", `An exception can run at most ${MAX_EXCEPTION_HOURS} hours past the deadline.`);
   }
   if (row.competition.state === "judging" || row.competition.state === "results") {
-    return { ok: false, message: "Judging has begun: an exception now would change what the jury already sees." };
+    throw conflict("judging_begun", "Judging has begun: an exception now would change what the jury already sees.");
   }
   await db().update(entries).set({ lateUntil: input.until, lateReason: reason, lateGrantedBy: organizerId, lateGrantedAt: now, updatedAt: now }).where(eq(entries.id, entryId));
   await audit({ actorUserId: organizerId, eventId: row.competition.eventId, action: "entry.late-exception.grant", subjectType: "entry", subjectId: entryId, details: { until: input.until.toISOString(), reason } });
-  return { ok: true, message: `Late exception granted until ${input.until.toISOString()} (UTC).` };
+  return { message: `Late exception granted until ${input.until.toISOString()} (UTC).` };
 }
 
-export async function revokeLateException(entryId: string, organizerId: string, now = new Date()): Promise<ExceptionOutcome> {
+export async function revokeLateException(entryId: string, organizerId: string, now = new Date()): Promise<{ message: string }> {
   const [row] = await db().select({ entry: entries, competition: competitions }).from(entries).innerJoin(competitions, eq(competitions.id, entries.competitionId)).where(eq(entries.id, entryId));
-  if (!row) return { ok: false, message: "That entry was not found." };
-  if (!row.entry.lateUntil) return { ok: false, message: "This entry has no late exception." };
+  if (!row) throw notFound("That entry was not found.");
+  if (!row.entry.lateUntil) throw conflict("no_exception", "This entry has no late exception.");
   // Uploads already recorded under it keep counting: they are on record as such.
   await db().update(entries).set({ lateUntil: null, lateReason: null, lateGrantedBy: null, lateGrantedAt: null, updatedAt: now }).where(eq(entries.id, entryId));
   await audit({ actorUserId: organizerId, eventId: row.competition.eventId, action: "entry.late-exception.revoke", subjectType: "entry", subjectId: entryId, details: { until: row.entry.lateUntil.toISOString(), reason: row.entry.lateReason } });
-  return { ok: true, message: "The late exception was withdrawn." };
+  return { message: "The late exception was withdrawn." };
 }
 
 /** The exception as pages show it (entry page, jury), or null. */

@@ -8,6 +8,7 @@ import { cutoffOf } from "./deadline";
 import { countingUploads } from "./counting.server";
 import type { UploadRow } from "./shapes";
 import { isId } from "~/security/ids";
+import { conflict, forbidden } from "~/errors/app-error";
 
 /** Entries: who may see one, creating one in an open competition, and the dashboard's data. */
 export function rulesetOf(raw: unknown): Ruleset {
@@ -50,33 +51,54 @@ export async function entryForViewer(entryId: string, u: SessionUser) {
   return null;
 }
 
-export type CreateEntryResult = { ok: true; entryId: string } | { ok: false; field?: "crewId" | "title"; message: string };
-
+/** A new entry of one of the user's crews; refusals are AppErrors (one about the crew names the `crewId` field). */
 export async function createEntry(
   u: SessionUser,
   competitionId: string,
   input: { crewId: string; title: string; description: string },
   now = new Date(),
-): Promise<CreateEntryResult> {
+): Promise<{ entryId: string }> {
   const [member] = await db()
     .select({ role: crewMembers.role })
     .from(crewMembers)
     .where(and(eq(crewMembers.crewId, input.crewId), eq(crewMembers.userId, u.id)));
-  if (!member) return { ok: false, field: "crewId", message: "You can only enter with a crew you are in." };
+  if (!member) throw forbidden("not_crew_member", "You can only enter with a crew you are in.", { fieldErrors: { crewId: ["You can only enter with a crew you are in."] } });
   return db().transaction(async (tx) => {
     const [c] = await tx.select().from(competitions).where(eq(competitions.id, competitionId)).for("share");
-    if (!c || c.state !== "open") return { ok: false as const, message: "This competition is not open for entries." };
+    if (!c || c.state !== "open") throw conflict("entries_closed", "This competition is not open for entries.");
     const cutoff = cutoffOf(c.deadlineAt, c.graceMinutes);
-    if (cutoff && now >= cutoff) return { ok: false as const, message: "The deadline of this competition has passed." };
+    if (cutoff && now >= cutoff) throw conflict("deadline_passed", "The deadline of this competition has passed.");
     const [e] = await tx
       .insert(entries)
       .values({ competitionId, crewId: input.crewId, title: input.title, description: input.description, feeState: c.feeAmount === 0 ? "not_required" : "unpaid" })
       .onConflictDoNothing({ target: [entries.competitionId, entries.crewId] })
       .returning({ id: entries.id });
-    if (!e) return { ok: false as const, field: "crewId" as const, message: "This crew already has an entry in this competition." };
+    if (!e) throw conflict("already_entered", "This crew already has an entry in this competition.", { fieldErrors: { crewId: ["This crew already has an entry in this competition."] } });
     await audit({ actorUserId: u.id, eventId: c.eventId, action: "entry.create", subjectType: "entry", subjectId: e.id, details: { crewId: input.crewId } }, tx);
-    return { ok: true as const, entryId: e.id };
+    return { entryId: e.id };
   });
+}
+
+/** The entries of every crew `userId` is a member of, with crew, compo and event names (the "My entries" page). */
+export async function entriesOfMember(userId: string) {
+  return db()
+    .select({
+      id: entries.id,
+      title: entries.title,
+      feeState: entries.feeState,
+      state: entries.state,
+      crewId: entries.crewId,
+      competitionId: entries.competitionId,
+      crew: crews.name,
+      competition: competitions.title,
+      competitionState: competitions.state,
+      event: events.title,
+    })
+    .from(entries)
+    .innerJoin(crewMembers, and(eq(crewMembers.crewId, entries.crewId), eq(crewMembers.userId, userId)))
+    .innerJoin(crews, eq(crews.id, entries.crewId))
+    .innerJoin(competitions, eq(competitions.id, entries.competitionId))
+    .innerJoin(events, eq(events.id, competitions.eventId));
 }
 
 /** Entries of the crews `userId` belongs to, in the existing competitions they entered. */

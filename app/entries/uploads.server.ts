@@ -1,20 +1,20 @@
-import { and, asc, eq, gt, inArray, lt, sql } from "drizzle-orm";
+import { and, eq, gt, inArray, lt, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { checkRuns, competitions, crewMembers, crews, entries, events, uploadFiles, uploads, user } from "~/db/schema";
-import { abortMultipart, completeMultipart, deleteObjectIfAny, hashObject, listStoredParts, presignPart, startMultipart } from "./storage.server";
+import { checkRuns, competitions, entries, uploadFiles, uploads } from "~/db/schema";
 import { queueCheckRun } from "~/conformance/queue.server";
-import { enqueueMail } from "~/mail/outbox.server";
-import { composeMail } from "~/mail/templates";
 import { env } from "~/env.server";
+import { AppError } from "~/errors/app-error";
+import { checkCommit, checkRepositoryLink } from "~/sources/repository-link";
 import { cutoffOf, EXCEPTION_STATES, timelinessOf, uploadWindowOpen } from "./deadline";
 import { checkLicence } from "./licence";
-import { checkCommit, checkRepositoryLink } from "~/sources/repository-link";
-import { formatBytes, partPlan, safeFilename, sizeProblem } from "./parts";
-import type { PlannedFile } from "./shapes";
-import { checkKind, FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "./sniff";
+import { abortFile, abortFilesOf, newFileRow, planOf, plannedFileValues, type ClaimedFile } from "./multipart.server";
+import { sizeProblem } from "./parts";
+import { sendUploadReceipt } from "./receipt.server";
 import { rulesetOf } from "./service.server";
-import { isId } from "~/security/ids";
-import { gzipLayoutProblem } from "./layout-gzip.server";
+import type { PlannedFile } from "./shapes";
+import { FILE_KINDS, KIND_LABELS, REQUIRED_KINDS, type FileKind } from "./sniff";
+import { abortMultipart } from "./storage.server";
+import { entryForUploader, uploadForUploader } from "./upload-access.server";
 
 /**
  * Uploads straight from the browser to S3 with presigned multipart parts. The server plans the parts, signs them,
@@ -23,54 +23,14 @@ import { gzipLayoutProblem } from "./layout-gzip.server";
  *
  * Pending and abandoned rows are not uploads: they carry a negative placeholder number (the column is required and
  * unique per entry); real uploads are numbered 1, 2, 3 … when they are completed, complete or late.
+ *
+ * This module is the upload's state machine (pending → complete | late, or abandoned); who may upload is
+ * ./upload-access.server.ts, the files in the store ./multipart.server.ts, the receipt ./receipt.server.ts.
+ * Refusals are AppErrors.
  */
-export type Refusal = { ok: false; status: number; code: string; message: string; fieldErrors?: Record<string, string[]> };
-export type Outcome<T> = ({ ok: true } & T) | Refusal;
-const refuse = (status: number, code: string, message: string, fieldErrors?: Record<string, string[]>): Refusal => ({ ok: false, status, code, message, fieldErrors });
+const refuse = (status: number, code: string, message: string, fieldErrors?: Record<string, string[]>) => new AppError(status, code, message, fieldErrors ? { fieldErrors } : {});
 
-export interface ClaimedFile {
-  kind: FileKind;
-  filename: string;
-  size: number;
-}
-
-
-/** An entry the user may upload to (crew member), with its competition; null → 404. */
-export async function entryForUploader(entryId: string, userId: string) {
-  const [row] = await db()
-    .select({ entry: entries, competition: competitions })
-    .from(entries)
-    .innerJoin(competitions, eq(competitions.id, entries.competitionId))
-    .innerJoin(crewMembers, and(eq(crewMembers.crewId, entries.crewId), eq(crewMembers.userId, userId)))
-    .where(eq(entries.id, entryId));
-  return row ?? null;
-}
-
-/** A pending/recorded upload of an entry the user is a crew member of; null → 404. */
-export async function uploadForUploader(uploadId: string, userId: string) {
-  if (!isId(uploadId)) return null;
-  const [row] = await db()
-    .select({ upload: uploads, entry: entries, competition: competitions })
-    .from(uploads)
-    .innerJoin(entries, eq(entries.id, uploads.entryId))
-    .innerJoin(competitions, eq(competitions.id, entries.competitionId))
-    .innerJoin(crewMembers, and(eq(crewMembers.crewId, entries.crewId), eq(crewMembers.userId, userId)))
-    .where(eq(uploads.id, uploadId));
-  return row ?? null;
-}
-
-export async function fileForUploader(uploadId: string, fileId: string, userId: string) {
-  const up = await uploadForUploader(uploadId, userId);
-  if (!up || !isId(fileId)) return null;
-  const [file] = await db().select().from(uploadFiles).where(and(eq(uploadFiles.id, fileId), eq(uploadFiles.uploadId, uploadId)));
-  return file ? { ...up, file } : null;
-}
-
-function planOf(f: typeof uploadFiles.$inferSelect): PlannedFile {
-  return { id: f.id, kind: f.kind, filename: f.filename, size: f.claimedBytes, ...partPlan(f.claimedBytes), state: f.state };
-}
-
-function uploadsOpen(c: typeof competitions.$inferSelect, e: typeof entries.$inferSelect, now: Date): Refusal | null {
+function uploadsOpen(c: typeof competitions.$inferSelect, e: typeof entries.$inferSelect, now: Date): AppError | null {
   if (e.state !== "active") return refuse(409, "entry_not_active", `This entry is ${e.state}; it takes no uploads.`);
   const when = timelinessOf(now, c.deadlineAt, c.graceMinutes, e.lateUntil);
   const stateOpen = c.state === "open" || (when === "exception" && EXCEPTION_STATES.includes(c.state));
@@ -106,19 +66,6 @@ export function sourceProblems(source: UploadSource, ruleset: ReturnType<typeof 
   return { problems, values };
 }
 
-/** Starts the file's multipart upload in the store; the row is written by the caller. */
-async function plannedFileValues(uploadId: string, entryId: string, f: ClaimedFile) {
-  const name = safeFilename(f.filename);
-  const key = `uploads/${entryId}/${uploadId}/${f.kind}/${crypto.randomUUID()}-${name}`;
-  const multipartUploadId = await startMultipart(key, "application/octet-stream");
-  return { uploadId, kind: f.kind, s3Key: key, filename: f.filename.slice(0, 200), claimedBytes: f.size, multipartUploadId, state: "uploading" as const };
-}
-
-async function newFileRow(uploadId: string, entryId: string, f: ClaimedFile) {
-  const [row] = await db().insert(uploadFiles).values(await plannedFileValues(uploadId, entryId, f)).returning();
-  return row;
-}
-
 /** Checks the claimed files against the ruleset before a byte is sent. */
 export function claimProblems(files: ClaimedFile[], ruleset: ReturnType<typeof rulesetOf>, required: readonly FileKind[]): Record<string, string[]> {
   const problems: Record<string, string[]> = {};
@@ -137,15 +84,15 @@ export function claimProblems(files: ClaimedFile[], ruleset: ReturnType<typeof r
  * only once the store has accepted every file of the new one: with the store down, the old upload stays
  * as it was and can still be resumed.
  */
-export async function startUpload(entryId: string, userId: string, files: ClaimedFile[], now = new Date(), source: UploadSource = {}): Promise<Outcome<{ uploadId: string; files: PlannedFile[] }>> {
+export async function startUpload(entryId: string, userId: string, files: ClaimedFile[], now = new Date(), source: UploadSource = {}): Promise<{ uploadId: string; files: PlannedFile[] }> {
   const row = await entryForUploader(entryId, userId);
-  if (!row) return refuse(404, "not_found", "That entry was not found.");
+  if (!row) throw refuse(404, "not_found", "That entry was not found.");
   const closed = uploadsOpen(row.competition, row.entry, now);
-  if (closed) return closed;
+  if (closed) throw closed;
   const ruleset = rulesetOf(row.competition.ruleset);
   const fromSource = sourceProblems(source, ruleset, files);
   const problems = { ...claimProblems(files, ruleset, requiredKinds(Boolean(source.repository))), ...fromSource.problems };
-  if (Object.keys(problems).length) return refuse(400, "files_refused", "Some files cannot be uploaded.", problems);
+  if (Object.keys(problems).length) throw refuse(400, "files_refused", "Some files cannot be uploaded.", problems);
 
   const uploadId = crypto.randomUUID();
   const values: Awaited<ReturnType<typeof plannedFileValues>>[] = [];
@@ -166,121 +113,25 @@ export async function startUpload(entryId: string, userId: string, files: Claime
     return { rows, stale };
   });
   await abortFilesOf(stale.map((s) => s.id));
-  return { ok: true, uploadId, files: rows.map(planOf) };
+  return { uploadId, files: rows.map(planOf) };
 }
 
 /** Adds a file to a pending upload, or replaces one that was refused or is still unfinished. */
-export async function putFile(uploadId: string, userId: string, f: ClaimedFile, now = new Date()): Promise<Outcome<{ file: PlannedFile }>> {
+export async function putFile(uploadId: string, userId: string, f: ClaimedFile, now = new Date()): Promise<{ file: PlannedFile }> {
   const up = await uploadForUploader(uploadId, userId);
-  if (!up) return refuse(404, "not_found", "That upload was not found.");
-  if (up.upload.state !== "pending") return refuse(409, "upload_closed", "This upload is finished; start a new one.");
+  if (!up) throw refuse(404, "not_found", "That upload was not found.");
+  if (up.upload.state !== "pending") throw refuse(409, "upload_closed", "This upload is finished; start a new one.");
   const closed = uploadsOpen(up.competition, up.entry, now);
-  if (closed) return closed;
+  if (closed) throw closed;
   const problems = claimProblems([f], rulesetOf(up.competition.ruleset), []);
   if (f.kind === "bundle" && up.upload.repositoryUrl) problems.bundle = ["This upload takes its sources from the repository link; it has no bundle file."];
-  if (Object.keys(problems).length) return refuse(400, "files_refused", "This file cannot be uploaded.", problems);
+  if (Object.keys(problems).length) throw refuse(400, "files_refused", "This file cannot be uploaded.", problems);
   const [old] = await db().select().from(uploadFiles).where(and(eq(uploadFiles.uploadId, uploadId), eq(uploadFiles.kind, f.kind)));
   if (old) {
     await abortFile(old);
     await db().delete(uploadFiles).where(eq(uploadFiles.id, old.id));
   }
-  return { ok: true, file: planOf(await newFileRow(uploadId, up.entry.id, f)) };
-}
-
-export async function pendingUploadFiles(uploadId: string): Promise<PlannedFile[]> {
-  const rows = await db().select().from(uploadFiles).where(eq(uploadFiles.uploadId, uploadId)).orderBy(asc(uploadFiles.createdAt));
-  return rows.map(planOf);
-}
-
-type FileRow = typeof uploadFiles.$inferSelect;
-
-/** Presigned PUT URLs for the given part numbers of a file still uploading. */
-export async function signParts(file: FileRow, partNumbers: number[]): Promise<Outcome<{ urls: Record<number, string> }>> {
-  if (file.state !== "uploading" || !file.multipartUploadId) return refuse(409, "file_closed", "This file is no longer uploading.");
-  const { partCount } = partPlan(file.claimedBytes);
-  const bad = partNumbers.filter((n) => !Number.isInteger(n) || n < 1 || n > partCount);
-  if (bad.length) return refuse(400, "bad_part", `Parts must be numbered 1 to ${partCount}.`);
-  const urls: Record<number, string> = {};
-  for (const n of partNumbers) urls[n] = await presignPart(file.s3Key, file.multipartUploadId, n);
-  return { ok: true, urls };
-}
-
-/**
- * What S3 already holds of a file: the browser sends only the rest (resume after a broken connection or a reload).
- * From S3's ListParts where the store has it; otherwise the parts browsers reported after each stored PUT (the
- * confirmation then checks the assembled object's size and hash, so a wrong report cannot slip through).
- */
-export async function storedParts(file: FileRow): Promise<{ partNumber: number; size: number; etag: string }[]> {
-  if (file.state !== "uploading" || !file.multipartUploadId) return [];
-  const listed = await listStoredParts(file.s3Key, file.multipartUploadId);
-  return (listed ?? file.parts).map(({ partNumber, size, etag }) => ({ partNumber, size, etag })).sort((a, b) => a.partNumber - b.partNumber);
-}
-
-/** The browser reports a part S3 accepted (its ETag from the PUT response). Reporting a part again replaces it. */
-export async function recordPart(file: FileRow, part: { partNumber: number; etag: string; size: number }): Promise<Outcome<{ recorded: number }>> {
-  if (file.state !== "uploading" || !file.multipartUploadId) return refuse(409, "file_closed", "This file is no longer uploading.");
-  const { partCount } = partPlan(file.claimedBytes);
-  if (part.partNumber < 1 || part.partNumber > partCount) return refuse(400, "bad_part", `Parts must be numbered 1 to ${partCount}.`);
-  // Sizes are not trusted here: the confirmation measures the assembled object in S3.
-  const entry = JSON.stringify([part]);
-  const [row] = await db()
-    .update(uploadFiles)
-    .set({
-      // One atomic update: drop an older report of the same part, append this one.
-      parts: sql`(select coalesce(jsonb_agg(p), '[]'::jsonb) from jsonb_array_elements(${uploadFiles.parts}) p where (p->>'partNumber')::int <> ${part.partNumber}) || ${entry}::jsonb`,
-    })
-    .where(and(eq(uploadFiles.id, file.id), eq(uploadFiles.state, "uploading")))
-    .returning({ parts: uploadFiles.parts });
-  if (!row) return refuse(409, "file_closed", "This file is no longer uploading.");
-  return { ok: true, recorded: row.parts.length };
-}
-
-export interface ConfirmedFile {
-  id: string;
-  kind: FileKind;
-  filename: string;
-  sizeBytes: number;
-  sha256: string;
-  mediaType: string;
-}
-
-/**
- * Finishes one file: assembles its parts (all must be stored), then confirms the object from S3 itself — stored size
- * against the ruleset, media type sniffed from the bytes, SHA-256 by streaming. A refused file's object is deleted.
- */
-export async function confirmFile(file: FileRow, ruleset: ReturnType<typeof rulesetOf>): Promise<Outcome<{ file: ConfirmedFile }>> {
-  const done = (f: FileRow): ConfirmedFile => ({ id: f.id, kind: f.kind, filename: f.filename, sizeBytes: f.sizeBytes ?? 0, sha256: f.sha256 ?? "", mediaType: f.mediaType ?? "" });
-  if (file.state === "confirmed") return { ok: true, file: done(file) };
-  if (file.state === "rejected") return refuse(422, "file_refused", file.rejectReason ?? "This file was refused.");
-  if (!file.multipartUploadId) return refuse(409, "file_closed", "This file has no upload in progress.");
-  const { partCount } = partPlan(file.claimedBytes);
-  const parts = await storedParts(file);
-  const missing = Array.from({ length: partCount }, (_, i) => i + 1).filter((n) => !parts.some((p) => p.partNumber === n));
-  if (missing.length) return refuse(409, "parts_missing", `Parts ${missing.join(", ")} of "${file.filename}" are not stored yet; send them and confirm again.`);
-  await completeMultipart(file.s3Key, file.multipartUploadId, parts.filter((p) => p.partNumber <= partCount));
-  const stored = await hashObject(file.s3Key);
-  const problem = sizeProblem(file.kind, file.filename, stored.size, ruleset, "stored") ?? (() => {
-    const k = checkKind(file.kind, file.filename, stored.head);
-    if (!k.ok) return k.message;
-    return file.kind === "layout" && k.mediaType === "application/gzip" ? gzipLayoutProblem(file.filename, stored.head) : null;
-  })();
-  if (problem) {
-    await deleteObjectIfAny(file.s3Key);
-    await db().update(uploadFiles).set({ state: "rejected", rejectReason: problem, sizeBytes: stored.size, multipartUploadId: null }).where(eq(uploadFiles.id, file.id));
-    return refuse(422, "file_refused", problem);
-  }
-  const mediaType = (checkKind(file.kind, file.filename, stored.head) as { mediaType: string }).mediaType;
-  const [row] = await db()
-    .update(uploadFiles)
-    .set({ state: "confirmed", sizeBytes: stored.size, sha256: stored.sha256, mediaType, confirmedAt: new Date(), multipartUploadId: null })
-    .where(and(eq(uploadFiles.id, file.id), eq(uploadFiles.state, "uploading")))
-    .returning();
-  if (!row) {
-    // A second confirmation raced this one and won; report what it recorded.
-    const [now] = await db().select().from(uploadFiles).where(eq(uploadFiles.id, file.id));
-    return now.state === "confirmed" ? { ok: true, file: done(now) } : refuse(422, "file_refused", now.rejectReason ?? "This file was refused.");
-  }
-  return { ok: true, file: done(row) };
+  return { file: planOf(await newFileRow(uploadId, up.entry.id, f)) };
 }
 
 export interface RecordedUpload {
@@ -294,21 +145,21 @@ export interface RecordedUpload {
 /**
  * Records the upload: all files confirmed, bundle and layout present. Under a lock on the entry row it takes the
  * next number and decides — on the server clock, now — whether it is on time (complete, counts, gets a check run)
- * or late (kept, never judged). Completing twice answers the same result.
+ * or late (kept, never judged). Completing twice answers the same result. Refusals throw AppError.
  */
-export async function completeUpload(uploadId: string, userId: string, now = new Date()): Promise<Outcome<{ upload: RecordedUpload; already: boolean }>> {
+export async function completeUpload(uploadId: string, userId: string, now = new Date()): Promise<{ upload: RecordedUpload; already: boolean }> {
   const up = await uploadForUploader(uploadId, userId);
-  if (!up) return refuse(404, "not_found", "That upload was not found.");
+  if (!up) throw refuse(404, "not_found", "That upload was not found.");
   const result = await db().transaction(async (tx) => {
     await tx.select({ id: entries.id }).from(entries).where(eq(entries.id, up.entry.id)).for("update");
     const [u] = await tx.select().from(uploads).where(eq(uploads.id, uploadId)).for("update");
-    if (u.state === "complete" || u.state === "late") return { ok: true as const, u, already: true };
-    if (u.state === "abandoned") return refuse(409, "upload_discarded", "This upload was discarded because a newer one was started.");
+    if (u.state === "complete" || u.state === "late") return { u, already: true };
+    if (u.state === "abandoned") throw refuse(409, "upload_discarded", "This upload was discarded because a newer one was started.");
     const files = await tx.select().from(uploadFiles).where(eq(uploadFiles.uploadId, uploadId));
     const unfinished = files.filter((f) => f.state !== "confirmed");
-    if (unfinished.length) return refuse(409, "files_unfinished", `Not every file is confirmed yet: ${unfinished.map((f) => `"${f.filename}" (${f.state})`).join(", ")}.`);
+    if (unfinished.length) throw refuse(409, "files_unfinished", `Not every file is confirmed yet: ${unfinished.map((f) => `"${f.filename}" (${f.state})`).join(", ")}.`);
     const missing = requiredKinds(Boolean(u.repositoryUrl)).filter((k) => !files.some((f) => f.kind === k));
-    if (missing.length) return refuse(409, "files_missing", `Missing: ${missing.map((k) => KIND_LABELS[k]).join(", ")}.`);
+    if (missing.length) throw refuse(409, "files_missing", `Missing: ${missing.map((k) => KIND_LABELS[k]).join(", ")}.`);
     const [c] = await tx.select().from(competitions).where(eq(competitions.id, up.competition.id));
     const [e] = await tx.select().from(entries).where(eq(entries.id, up.entry.id));
     const when = timelinessOf(now, c.deadlineAt, c.graceMinutes, e.lateUntil);
@@ -321,9 +172,8 @@ export async function completeUpload(uploadId: string, userId: string, now = new
       .returning();
     // A new upload that counts replaces the crew's earlier pick: the newest counts again until they pick anew.
     if (!late) await tx.update(entries).set({ finalUploadId: null }).where(eq(entries.id, up.entry.id));
-    return { ok: true as const, u: done, already: false };
+    return { u: done, already: false };
   });
-  if (!result.ok) return result;
   const { u } = result;
   const state = u.state as "complete" | "late";
   if (state === "complete") {
@@ -335,80 +185,12 @@ export async function completeUpload(uploadId: string, userId: string, now = new
     state === "complete"
       ? `Upload #${u.number} is recorded and counts${u.lateException ? " (under the organizer's late exception)" : ""}. Its check run is queued.`
       : `Upload #${u.number} arrived after the deadline. It is kept as late and does not count; the last on-time upload stays in the compo.`;
-  return { ok: true, already: result.already, upload: { uploadId: u.id, number: u.number, state, completedAt: (u.completedAt ?? now).toISOString(), message } };
-}
-
-/** The receipt to every crew member: every file's name, size and SHA-256, and the server time. Once per upload and person. */
-export async function sendUploadReceipt(uploadId: string): Promise<void> {
-  const [row] = await db()
-    .select({ upload: uploads, entry: entries, competition: competitions, event: events, crew: crews })
-    .from(uploads)
-    .innerJoin(entries, eq(entries.id, uploads.entryId))
-    .innerJoin(competitions, eq(competitions.id, entries.competitionId))
-    .innerJoin(events, eq(events.id, competitions.eventId))
-    .innerJoin(crews, eq(crews.id, entries.crewId))
-    .where(eq(uploads.id, uploadId));
-  const files = await db().select().from(uploadFiles).where(eq(uploadFiles.uploadId, uploadId));
-  const members = await db().select({ id: user.id, email: user.email }).from(crewMembers).innerJoin(user, eq(user.id, crewMembers.userId)).where(eq(crewMembers.crewId, row.entry.crewId));
-  const at = row.upload.completedAt ?? new Date();
-  const local = new Intl.DateTimeFormat("en-GB", { dateStyle: "full", timeStyle: "long", timeZone: row.event.timeZone }).format(at);
-  const late = row.upload.state === "late";
-  const lines = receiptLines(row.upload, files);
-  for (const m of members) {
-    await enqueueMail(
-      composeMail(
-        m.email,
-        late ? `Late upload #${row.upload.number} for ${row.entry.title} (does not count)` : `Upload receipt: ${row.entry.title}, upload #${row.upload.number}`,
-        [
-          `Gatecrash recorded upload #${row.upload.number} of "${row.entry.title}" by ${row.crew.name} in ${row.competition.title} (${row.event.title}).`,
-          `Server time: ${at.toISOString()} (UTC) — ${local} (${row.event.timeZone}).`,
-          late
-            ? "It arrived after the deadline, so it is kept as late and is not judged. Your last on-time upload stays in the compo."
-            : row.upload.lateException
-              ? `It arrived after the deadline, within the late exception the organizer granted this entry (${row.entry.lateReason ?? "no reason given"}), so it counts. The jury sees the exception. Its check run is queued.`
-              : "It is the upload that counts now. Its check run is queued; the entry page shows the result.",
-          lines.join("\n\n"),
-          { text: "Open the entry", href: `${env().APP_URL}/entries/${row.entry.id}` },
-          row.upload.repositoryCommit
-            ? "Keep this mail: the commit hash and the SHA-256 sums prove what you submitted and when."
-            : "Keep this mail: the SHA-256 sums prove which files you submitted and when.",
-        ],
-        `upload-receipt:${uploadId}:${m.id}`,
-      ),
-    );
-  }
+  return { already: result.already, upload: { uploadId: u.id, number: u.number, state, completedAt: (u.completedAt ?? now).toISOString(), message } };
 }
 
 /** Bundle and layout, or layout alone when the sources come from a repository link. */
 function requiredKinds(fromRepository: boolean): readonly FileKind[] {
   return fromRepository ? REQUIRED_KINDS.filter((k) => k !== "bundle") : REQUIRED_KINDS;
-}
-
-/** What the receipt lists: the repository and commit (when the sources come from one), the licence, every file. */
-function receiptLines(u: typeof uploads.$inferSelect, files: FileRow[]): string[] {
-  const lines: string[] = [];
-  if (u.repositoryUrl && u.repositoryCommit) {
-    lines.push(`Sources from a repository (fetched by the check run at exactly this commit)\n  ${u.repositoryUrl}\n  commit ${u.repositoryCommit}`);
-  }
-  if (u.licence) lines.push(`Licence\n  ${u.licence}`);
-  for (const f of FILE_KINDS.flatMap((k) => files.filter((x) => x.kind === k))) {
-    lines.push(`${KIND_LABELS[f.kind]}\n  ${f.filename}\n  ${f.sizeBytes} bytes (${formatBytes(f.sizeBytes ?? 0)})\n  SHA-256 ${f.sha256}`);
-  }
-  return lines;
-}
-
-async function abortFile(f: FileRow): Promise<void> {
-  if (f.multipartUploadId) await abortMultipart(f.s3Key, f.multipartUploadId);
-}
-
-async function abortFilesOf(uploadIds: string[]): Promise<void> {
-  if (uploadIds.length === 0) return;
-  const files = await db().select().from(uploadFiles).where(inArray(uploadFiles.uploadId, uploadIds));
-  for (const f of files) {
-    await abortFile(f);
-    if (f.state === "confirmed") await deleteObjectIfAny(f.s3Key);
-  }
-  await db().update(uploadFiles).set({ multipartUploadId: null }).where(inArray(uploadFiles.uploadId, uploadIds));
 }
 
 /** The entrant discards an unfinished upload: its stored parts are aborted and it is marked abandoned. */
@@ -428,3 +210,4 @@ export async function sweepStaleUploads(maxAgeMs = 24 * 3600_000, now = new Date
   await abortFilesOf(res.map((r) => r.id));
   return res.length;
 }
+

@@ -1,7 +1,7 @@
 import { and, eq, exists, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { competitions, eventRoles, events, juryAssignments } from "~/db/schema";
-import { isUuid } from "./errors";
+import { isId } from "~/security/ids";
 
 /**
  * Who may see which competition for judging. Every lookup takes the caller with it, so an id from another
@@ -37,7 +37,7 @@ const fields = {
 
 /** The competition if `userId` is a judge of its event and assigned to its jury; with the judge's own order seed. */
 export async function competitionForJudge(userId: string, competitionId: string | undefined): Promise<(JudgingCompetition & { assignmentSeed: string }) | null> {
-  if (!isUuid(competitionId)) return null;
+  if (!isId(competitionId)) return null;
   const [row] = await db()
     .select({ ...fields, assignmentSeed: juryAssignments.orderSeed })
     .from(competitions)

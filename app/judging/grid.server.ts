@@ -1,7 +1,7 @@
 import { and, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { entries as entriesTable, scores, scoresheets } from "~/db/schema";
-import { isUuid } from "./errors";
+import { isId } from "~/security/ids";
 import type { JudgingCompetition } from "./access.server";
 import { conflictMap, criteriaOf, judgedEntries } from "./entries.server";
 import { orderSeedFor, seededOrder } from "./order";
@@ -73,7 +73,7 @@ export interface JudgeEntryView {
  * conflict with it (they never see it), null when it is not an entry of this competition's grid.
  */
 export async function entryForJudge(judgeUserId: string, c: JudgingCompetition & { assignmentSeed: string }, entryId: string | undefined): Promise<JudgeEntryView | "conflict" | null> {
-  if (!isUuid(entryId)) return null;
+  if (!isId(entryId)) return null;
   const { ordered } = await judgeEntryOrder(judgeUserId, c);
   const i = ordered.findIndex((e) => e.id === entryId);
   if (i < 0) {

@@ -7,7 +7,7 @@ import { enqueueMail } from "~/mail/outbox.server";
 import { composeMail } from "~/mail/templates";
 import type { JudgingCompetition } from "./access.server";
 import { conflictMap, judgedEntries } from "./entries.server";
-import { JudgingError } from "./errors";
+import { AppError } from "~/errors/app-error";
 
 /** The organizer's side of the jury: invitations, assignments, conflicts, blind judging, order, closing. */
 export const INVITE_DAYS = 14;
@@ -80,7 +80,7 @@ export async function inviteJudge(a: { competition: JudgingCompetition; email: s
     .from(eventRoles)
     .innerJoin(user, eq(user.id, eventRoles.userId))
     .where(and(eq(eventRoles.eventId, a.competition.eventId), eq(eventRoles.role, "judge"), eq(user.email, email)));
-  if (already) throw new JudgingError(409, "already_judge", "That address already belongs to a judge of this event; assign them below.", { fieldErrors: { email: ["Already a judge of this event."] } });
+  if (already) throw new AppError(409, "already_judge", "That address already belongs to a judge of this event; assign them below.", { fieldErrors: { email: ["Already a judge of this event."] } });
   const token = randomBytes(32).toString("base64url");
   const expiresAt = new Date(Date.now() + INVITE_DAYS * 24 * 3600 * 1000);
   const [row] = await db()
@@ -111,7 +111,7 @@ export async function revokeInvite(c: JudgingCompetition, inviteId: string, acto
     .delete(judgeInvites)
     .where(and(eq(judgeInvites.id, inviteId), eq(judgeInvites.eventId, c.eventId)))
     .returning({ id: judgeInvites.id, acceptedAt: judgeInvites.acceptedAt });
-  if (gone.length === 0) throw new JudgingError(404, "not_found", "That invitation was not found.");
+  if (gone.length === 0) throw new AppError(404, "not_found", "That invitation was not found.");
   await audit({ actorUserId: actor, eventId: c.eventId, action: "jury.invite-revoked", subjectType: "judge_invite", subjectId: inviteId });
 }
 
@@ -135,11 +135,11 @@ export async function findInvite(token: string): Promise<(InviteView & { id: str
 /** Accepts an invitation as the signed-in user, who must hold the invited address. Grants the event's judge role. */
 export async function acceptInvite(token: string, accepter: { id: string; email: string }): Promise<{ eventId: string }> {
   const invite = await findInvite(token);
-  if (!invite) throw new JudgingError(404, "not_found", "This invitation does not exist or was withdrawn.");
-  if (invite.state === "expired") throw new JudgingError(410, "expired", "This invitation has expired. Ask the organizers for a new one.");
-  if (invite.state === "accepted") throw new JudgingError(409, "already_accepted", "This invitation was already accepted.");
+  if (!invite) throw new AppError(404, "not_found", "This invitation does not exist or was withdrawn.");
+  if (invite.state === "expired") throw new AppError(410, "expired", "This invitation has expired. Ask the organizers for a new one.");
+  if (invite.state === "accepted") throw new AppError(409, "already_accepted", "This invitation was already accepted.");
   if (invite.email.toLowerCase() !== accepter.email.toLowerCase())
-    throw new JudgingError(403, "wrong_account", `This invitation was sent to ${invite.email}. Sign in with that address to accept it.`);
+    throw new AppError(403, "wrong_account", `This invitation was sent to ${invite.email}. Sign in with that address to accept it.`);
   await db().transaction(async (tx) => {
     await tx.insert(eventRoles).values({ eventId: invite.eventId, userId: accepter.id, role: "judge" }).onConflictDoNothing();
     await tx.update(judgeInvites).set({ acceptedAt: new Date() }).where(eq(judgeInvites.id, invite.id));
@@ -153,7 +153,7 @@ async function requireEventJudge(c: JudgingCompetition, judgeUserId: string): Pr
     .select({ id: eventRoles.id })
     .from(eventRoles)
     .where(and(eq(eventRoles.eventId, c.eventId), eq(eventRoles.userId, judgeUserId), eq(eventRoles.role, "judge")));
-  if (!row) throw new JudgingError(404, "not_found", "That person is not a judge of this event.");
+  if (!row) throw new AppError(404, "not_found", "That person is not a judge of this event.");
 }
 
 export async function setAssignment(c: JudgingCompetition, judgeUserId: string, assigned: boolean, actor: string): Promise<void> {
@@ -189,7 +189,7 @@ export async function setJuryMethod(c: JudgingCompetition, method: "jury-raw" | 
 /** Declares a conflict (by the judge themself or by the organizer). The entry must be one this competition judges. */
 export async function declareConflict(c: JudgingCompetition, a: { entryId: string; judgeUserId: string; reason: string; declaredBy: string }): Promise<void> {
   const { entries } = await judgedEntries(c.id);
-  if (!entries.some((e) => e.id === a.entryId)) throw new JudgingError(404, "not_found", "That entry is not judged in this compo.");
+  if (!entries.some((e) => e.id === a.entryId)) throw new AppError(404, "not_found", "That entry is not judged in this compo.");
   await requireEventJudge(c, a.judgeUserId);
   const [row] = await db()
     .insert(conflicts)
@@ -209,6 +209,6 @@ export async function removeConflict(c: JudgingCompetition, conflictId: string, 
         .where(and(eq(conflicts.id, conflictId), inArray(conflicts.entryId, ids)))
         .returning({ id: conflicts.id })
     : [];
-  if (gone.length === 0) throw new JudgingError(404, "not_found", "That conflict was not found.");
+  if (gone.length === 0) throw new AppError(404, "not_found", "That conflict was not found.");
   await audit({ actorUserId: actor, eventId: c.eventId, action: "jury.conflict-removed", subjectType: "conflict", subjectId: conflictId });
 }

@@ -1,7 +1,8 @@
 import { and, eq, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { competitions, conflicts, crewMembers, criteria, entries, juryAssignments, scoreHistory, scores, scoresheets, uploads } from "~/db/schema";
-import { JudgingError, isUuid } from "./errors";
+import { AppError } from "~/errors/app-error";
+import { isId } from "~/security/ids";
 import { scaleError } from "./sheet";
 import { scoringWindow } from "~/competitions/lifecycle";
 
@@ -34,17 +35,17 @@ export interface SavedScore {
 type Tx = Parameters<Parameters<ReturnType<typeof db>["transaction"]>[0]>[0];
 
 async function guardSheet(tx: Tx, judgeUserId: string, competitionId: string, entryId: string): Promise<string> {
-  if (!isUuid(competitionId) || !isUuid(entryId)) throw new JudgingError(404, "not_found", "That entry was not found.");
+  if (!isId(competitionId) || !isId(entryId)) throw new AppError(404, "not_found", "That entry was not found.");
   const [comp] = await tx
     .select({ locked: competitions.judgingLocked, state: competitions.state })
     .from(competitions)
     .innerJoin(juryAssignments, and(eq(juryAssignments.competitionId, competitions.id), eq(juryAssignments.judgeUserId, judgeUserId)))
     .where(eq(competitions.id, competitionId))
     .for("share", { of: competitions });
-  if (!comp) throw new JudgingError(404, "not_found", "That competition was not found among the ones you judge.");
+  if (!comp) throw new AppError(404, "not_found", "That competition was not found among the ones you judge.");
   const window = scoringWindow(comp.state);
-  if (window === "entries-open") throw new JudgingError(409, "entries_still_open", "This compo is still open for entries: scoring starts once entries close.");
-  if (comp.locked || window === "results-out") throw new JudgingError(423, "judging_closed", "Judging of this compo is closed: scores can no longer change.");
+  if (window === "entries-open") throw new AppError(409, "entries_still_open", "This compo is still open for entries: scoring starts once entries close.");
+  if (comp.locked || window === "results-out") throw new AppError(423, "judging_closed", "Judging of this compo is closed: scores can no longer change.");
   const [entry] = await tx
     .select({ id: entries.id, crewId: entries.crewId })
     .from(entries)
@@ -56,7 +57,7 @@ async function guardSheet(tx: Tx, judgeUserId: string, competitionId: string, en
         sql`exists (select 1 from ${uploads} where ${uploads.entryId} = ${entries.id} and ${uploads.state} = 'complete')`,
       ),
     );
-  if (!entry) throw new JudgingError(404, "not_found", "That entry is not on your grid.");
+  if (!entry) throw new AppError(404, "not_found", "That entry is not on your grid.");
   const [member] = await tx
     .select({ one: sql`1` })
     .from(crewMembers)
@@ -65,7 +66,7 @@ async function guardSheet(tx: Tx, judgeUserId: string, competitionId: string, en
     .select({ id: conflicts.id })
     .from(conflicts)
     .where(and(eq(conflicts.entryId, entryId), eq(conflicts.judgeUserId, judgeUserId)));
-  if (member || declared) throw new JudgingError(403, "conflict_of_interest", "You have a conflict with this entry and cannot score it.");
+  if (member || declared) throw new AppError(403, "conflict_of_interest", "You have a conflict with this entry and cannot score it.");
 
   await tx.insert(scoresheets).values({ entryId, judgeUserId }).onConflictDoNothing({ target: [scoresheets.entryId, scoresheets.judgeUserId] });
   const [sheet] = await tx
@@ -79,15 +80,15 @@ async function guardSheet(tx: Tx, judgeUserId: string, competitionId: string, en
 export async function saveScore(input: SaveScoreInput): Promise<SavedScore> {
   return db().transaction(async (tx) => {
     const sheetId = await guardSheet(tx, input.judgeUserId, input.competitionId, input.entryId);
-    if (!isUuid(input.criterionId)) throw new JudgingError(400, "invalid_body", "Some fields are not valid.", { fieldErrors: { criterionId: ["Not a criterion of this compo."] } });
+    if (!isId(input.criterionId)) throw new AppError(400, "invalid_body", "Some fields are not valid.", { fieldErrors: { criterionId: ["Not a criterion of this compo."] } });
     const [crit] = await tx
       .select({ scaleMin: criteria.scaleMin, scaleMax: criteria.scaleMax })
       .from(criteria)
       .where(and(eq(criteria.id, input.criterionId), eq(criteria.competitionId, input.competitionId)));
-    if (!crit) throw new JudgingError(400, "invalid_body", "Some fields are not valid.", { fieldErrors: { criterionId: ["Not a criterion of this compo."] } });
+    if (!crit) throw new AppError(400, "invalid_body", "Some fields are not valid.", { fieldErrors: { criterionId: ["Not a criterion of this compo."] } });
     if (input.value !== null) {
       const problem = scaleError(crit, input.value);
-      if (problem) throw new JudgingError(400, "invalid_body", "Some fields are not valid.", { fieldErrors: { value: [problem] } });
+      if (problem) throw new AppError(400, "invalid_body", "Some fields are not valid.", { fieldErrors: { value: [problem] } });
     }
     const [current] = await tx
       .select({ value: scores.value, version: scores.version })
@@ -96,7 +97,7 @@ export async function saveScore(input: SaveScoreInput): Promise<SavedScore> {
     const currentVersion = current?.version ?? 0;
     const currentValue = current?.value ?? null;
     if (input.version !== currentVersion) {
-      throw new JudgingError(409, "stale_version", "This score was changed elsewhere (another tab or device) since you loaded it.", {
+      throw new AppError(409, "stale_version", "This score was changed elsewhere (another tab or device) since you loaded it.", {
         details: { current: { entryId: input.entryId, criterionId: input.criterionId, value: currentValue, version: currentVersion } },
       });
     }
@@ -133,7 +134,7 @@ export async function saveNote(input: { judgeUserId: string; competitionId: stri
     const sheetId = await guardSheet(tx, input.judgeUserId, input.competitionId, input.entryId);
     const [sheet] = await tx.select({ note: scoresheets.note, version: scoresheets.version }).from(scoresheets).where(eq(scoresheets.id, sheetId));
     if (input.version !== sheet.version) {
-      throw new JudgingError(409, "stale_version", "This note was changed elsewhere (another tab or device) since you loaded it.", {
+      throw new AppError(409, "stale_version", "This note was changed elsewhere (another tab or device) since you loaded it.", {
         details: { current: { entryId: input.entryId, note: sheet.note, version: sheet.version } },
       });
     }

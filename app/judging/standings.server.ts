@@ -5,7 +5,7 @@ import { ScoringInputError } from "~/scoring/errors";
 import { juryStandings, type JudgeScore, type JuryStandings } from "~/scoring/jury";
 import type { JudgingCompetition } from "./access.server";
 import { conflictMap, criteriaOf, judgedEntries } from "./entries.server";
-import { isUuid } from "./errors";
+import { isId } from "~/security/ids";
 import type { ScaleCriterion } from "./sheet";
 
 /**
@@ -78,7 +78,7 @@ export interface HistoryRow {
 
 /** Every change to every scoresheet of one entry, newest first. */
 export async function historyFor(c: JudgingCompetition, entryId: string | undefined): Promise<{ entry: { id: string; title: string; state: string }; rows: HistoryRow[] } | null> {
-  if (!isUuid(entryId)) return null;
+  if (!isId(entryId)) return null;
   const [entry] = await db()
     .select({ id: entriesTable.id, title: entriesTable.title, state: entriesTable.state })
     .from(entriesTable)

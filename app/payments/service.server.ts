@@ -9,6 +9,7 @@ import { composeMail } from "~/mail/templates";
 import { applyEvidence, feeStateOf, formatMoney, type Evidence, type PaymentState } from "./states";
 import { stripe } from "./stripe.server";
 import { isId } from "~/security/ids";
+import { AppError, conflict, notFound } from "~/errors/app-error";
 
 /**
  * Entry fees: a Checkout session per attempt, webhooks applied once each (the event id is stored in the same
@@ -17,25 +18,24 @@ import { isId } from "~/security/ids";
  */
 const META = "gatecrash_payment_id";
 
-export type PayOutcome = { ok: true; url: string } | { ok: false; message: string };
-
-export async function startCheckout(entryId: string, payer: { id: string; email: string }): Promise<PayOutcome> {
+/** The payment page to send the payer to; refusals are AppErrors. */
+export async function startCheckout(entryId: string, payer: { id: string; email: string }): Promise<{ url: string }> {
   const [row] = await db()
     .select({ entry: entries, competition: competitions, event: events })
     .from(entries)
     .innerJoin(competitions, eq(competitions.id, entries.competitionId))
     .innerJoin(events, eq(events.id, competitions.eventId))
     .where(eq(entries.id, entryId));
-  if (!row) return { ok: false, message: "That entry was not found." };
+  if (!row) throw notFound("That entry was not found.");
   const { entry, competition } = row;
-  if (competition.feeAmount === 0) return { ok: false, message: "This competition has no entry fee." };
-  if (entry.feeState === "paid") return { ok: false, message: "The entry fee is already paid." };
-  if (entry.feeState === "refunded") return { ok: false, message: "The entry fee was refunded. Ask the organizers if you want to enter again." };
+  if (competition.feeAmount === 0) throw conflict("no_fee", "This competition has no entry fee.");
+  if (entry.feeState === "paid") throw conflict("fee_paid", "The entry fee is already paid.");
+  if (entry.feeState === "refunded") throw conflict("fee_refunded", "The entry fee was refunded. Ask the organizers if you want to enter again.");
   // An open checkout of this entry is reused, so a double click does not make two.
   const open = await db().select().from(payments).where(and(eq(payments.entryId, entryId), eq(payments.state, "open")));
   for (const p of open) {
     const s = await stripe().checkout.sessions.retrieve(p.checkoutSessionId);
-    if (s.status === "open" && s.url) return { ok: true, url: s.url };
+    if (s.status === "open" && s.url) return { url: s.url };
   }
   const paymentId = crypto.randomUUID();
   const base = env().APP_URL;
@@ -66,8 +66,8 @@ export async function startCheckout(entryId: string, payer: { id: string; email:
     await syncFeeState(tx, entryId);
   });
   await audit({ actorUserId: payer.id, eventId: competition.eventId, action: "fee.checkout", subjectType: "entry", subjectId: entryId, details: { paymentId } });
-  if (!session.url) return { ok: false, message: "The payment service gave no payment page. Try again." };
-  return { ok: true, url: session.url };
+  if (!session.url) throw new AppError(502, "no_payment_page", "The payment service gave no payment page. Try again.");
+  return { url: session.url };
 }
 
 
@@ -221,21 +221,19 @@ export async function sendFeeReceipt(paymentId: string): Promise<void> {
   }
 }
 
-export type RefundOutcome = { ok: true; refundId: string } | { ok: false; message: string };
-
 /** The organizer refunds an entry's paid fee through the SDK; the webhook confirms it and moves the states. */
-export async function refundEntryFee(competitionId: string, entryId: string, organizerId: string): Promise<RefundOutcome> {
+export async function refundEntryFee(competitionId: string, entryId: string, organizerId: string): Promise<{ refundId: string }> {
   const [row] = await db()
     .select({ entry: entries, competition: competitions })
     .from(entries)
     .innerJoin(competitions, eq(competitions.id, entries.competitionId))
     .where(and(eq(entries.id, entryId), eq(entries.competitionId, competitionId)));
-  if (!row) return { ok: false, message: "That entry is not in this competition." };
+  if (!row) throw notFound("That entry is not in this competition.");
   const [p] = await db()
     .select()
     .from(payments)
     .where(and(eq(payments.entryId, entryId), inArray(payments.state, ["paid", "partially_refunded"])));
-  if (!p || !p.paymentIntentId) return { ok: false, message: "This entry has no paid fee to refund." };
+  if (!p || !p.paymentIntentId) throw conflict("nothing_to_refund", "This entry has no paid fee to refund.");
   let refund: Stripe.Refund;
   try {
     refund = await stripe().refunds.create(
@@ -244,7 +242,7 @@ export async function refundEntryFee(competitionId: string, entryId: string, org
     );
   } catch (e) {
     // The service refuses (e.g. already refunded): say why; anything else is a real failure and propagates.
-    if (e instanceof Stripe.errors.StripeInvalidRequestError) return { ok: false, message: `The payment service refused the refund: ${e.message}` };
+    if (e instanceof Stripe.errors.StripeInvalidRequestError) throw new AppError(502, "refund_refused", `The payment service refused the refund: ${e.message}`);
     throw e;
   }
   await audit({
@@ -255,7 +253,21 @@ export async function refundEntryFee(competitionId: string, entryId: string, org
     subjectId: entryId,
     details: { paymentId: p.id, refundId: refund.id, amount: refund.amount, currency: refund.currency },
   });
-  return { ok: true, refundId: refund.id };
+  return { refundId: refund.id };
+}
+
+/**
+ * An entry of one competition with its crew, for that competition's organizer (the caller's guard): null for an
+ * entry elsewhere, which the refund page answers with 404.
+ */
+export async function entryForRefund(competitionId: string, entryId: string) {
+  if (!isId(entryId)) return null;
+  const [row] = await db()
+    .select({ entry: entries, crew: crews })
+    .from(entries)
+    .innerJoin(crews, eq(crews.id, entries.crewId))
+    .where(and(eq(entries.id, entryId), eq(entries.competitionId, competitionId)));
+  return row ?? null;
 }
 
 export async function paymentsOfEntry(entryId: string) {

@@ -1,4 +1,5 @@
 import { and, asc, eq, inArray } from "drizzle-orm";
+import { AppError } from "~/errors/app-error";
 import { audit } from "~/audit/log.server";
 import { db } from "~/db/client.server";
 import { awards, competitions, crews, entries } from "~/db/schema";
@@ -11,12 +12,13 @@ import { awards, competitions, crews, entries } from "~/db/schema";
  */
 export const MAX_AWARDS = 40;
 
-export class AwardError extends Error {
+/** A refused award change (an AppError): about one form field, or (`award`) about the award as a whole. */
+export class AwardError extends AppError {
   constructor(
     readonly field: "title" | "citation" | "winnerEntryId" | "award",
     message: string,
   ) {
-    super(message);
+    super(field === "award" ? 409 : 400, field === "award" ? "award_refused" : "invalid_body", message, field === "award" ? { formErrors: [message] } : { fieldErrors: { [field]: [message] }, formErrors: [] });
     this.name = "AwardError";
   }
 }

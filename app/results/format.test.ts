@@ -1,7 +1,7 @@
 import { parse } from "csv-parse/sync";
 import { describe, expect, it } from "vitest";
 import { resultsCsv } from "./format";
-import type { ResultsPayload } from "./results.server";
+import type { ResultsPayload } from "./shapes";
 
 /**
  * Results CSV: RFC 4180 framing, read back with csv-parse (a general-purpose CSV reader from npm), and formula

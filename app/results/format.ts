@@ -1,5 +1,5 @@
 import { toCsv } from "~/security/csv";
-import type { ResultsPayload, StandingRow } from "./results.server";
+import type { ResultsPayload, StandingRow } from "./shapes";
 
 /** Figures as the results pages, the CSV and the text sheet print them. */
 export function fmt(n: number | null, digits = 3): string {

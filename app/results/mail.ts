@@ -1,6 +1,6 @@
 import { composeMail, type Mail } from "~/mail/templates";
 import { fmt, METHOD_NAMES, placeLabel } from "./format";
-import type { ResultsPayload, StandingRow } from "./results.server";
+import type { ResultsPayload, StandingRow } from "./shapes";
 
 /** The mail every entrant gets when results are published (and again for a correction). */
 export function resultsMail(a: { to: string; name: string; row: StandingRow; payload: ResultsPayload; url: string; dedupeKey: string }): Mail {

@@ -1,6 +1,7 @@
 import { data } from "react-router";
 import { competitionBySlugs, type PublicCompetition } from "~/showcase/showcase.server";
-import { publishedResults, type PublishedVersion } from "./results.server";
+import { publishedResults } from "./results.server";
+import type { PublishedVersion } from "./shapes";
 
 /** Public results: anyone, once a version is published. `?version=N` picks an older one. */
 export async function requirePublicCompetition(params: { eventSlug?: string; competitionSlug?: string }): Promise<PublicCompetition> {

@@ -2,7 +2,8 @@ import { asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { competitions, events } from "~/db/schema";
 import { publicAwards, type AwardView } from "./awards.server";
-import { publishedResults, type StandingRow } from "./results.server";
+import { publishedResults } from "./results.server";
+import type { StandingRow } from "./shapes";
 
 /**
  * The party-wide results: every compo of the party whose results are published (its newest version), in the

@@ -1,4 +1,5 @@
 import { createHmac } from "node:crypto";
+import { AppError } from "~/errors/app-error";
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { audit } from "~/audit/log.server";
 import { db } from "~/db/client.server";
@@ -6,12 +7,13 @@ import { competitions, crewMembers, criteria, entries, events, resultsSnapshots,
 import { env } from "~/env.server";
 import { enqueueMail } from "~/mail/outbox.server";
 import { juryStandings, type JuryStandings } from "~/scoring/jury";
-import { mixStandings } from "~/scoring/mix";
 import type { RecountInput } from "~/scoring/recount";
+import { mixStandings } from "~/scoring/mix";
 import { eligibleEntries } from "~/showcase/showcase.server";
-import { ballotsForCount, tallyFor, type BallotMethod } from "~/voting/voting.server";
-import { canonicalJson, CURRENT_HASH_SCHEME, isHashScheme, LEGACY_HASH_SCHEME, payloadHash, type HashScheme } from "./canonical";
+import { ballotsForCount, tallyFor } from "~/voting/voting.server";
+import { canonicalJson, CURRENT_HASH_SCHEME, isHashScheme, LEGACY_HASH_SCHEME, payloadHash } from "./canonical";
 import { resultsMail } from "./mail";
+import { RESULTS_FORMAT, type PublishedVersion, type ResultsPayload, type StandingRow, type Standings } from "./shapes";
 
 /**
  * Standings (live, for the organizer's preview) and results (published, frozen). A published version is a
@@ -20,39 +22,7 @@ import { resultsMail } from "./mail";
  * downloads is exactly what was counted.
  */
 
-export const RESULTS_FORMAT = "gatecrash-results/1";
 
-export interface SideFigures {
-  score: number | null;
-  normalised: number;
-  place: number | null;
-}
-
-export interface StandingRow {
-  place: number;
-  tied: boolean;
-  entryId: string;
-  title: string;
-  crew: string;
-  mixed: number;
-  jury: SideFigures;
-  audience: SideFigures;
-}
-
-export interface ResultsPayload {
-  format: typeof RESULTS_FORMAT;
-  competition: { id: string; slug: string; title: string; eventSlug: string; eventTitle: string };
-  version: number;
-  note: string;
-  method: { jury: "jury-raw" | "jury-z"; audience: BallotMethod; juryWeightPct: number; audienceWeightPct: number };
-  counts: { entries: number; judges: number; scores: number; ballots: number; ballotsSetAside: number };
-  criteria: { id: string; name: string; weight: number; min: number; max: number }[];
-  standings: StandingRow[];
-  rules: { jury: string[]; mix: string[] };
-  recount: { jury: RecountInput | null; audience: RecountInput };
-}
-
-export type Standings = Omit<ResultsPayload, "version" | "note">;
 
 function pseudonym(kind: "judge" | "voter", competitionId: string, id: string): string {
   const mac = createHmac("sha256", env().BETTER_AUTH_SECRET).update(`${kind}:${competitionId}:${id}`).digest("hex");
@@ -144,16 +114,6 @@ export async function computeStandings(competitionId: string): Promise<Standings
   };
 }
 
-export interface PublishedVersion {
-  id: string;
-  version: number;
-  sha256: string;
-  /** The scheme sha256 was made with (app/results/canonical.ts). */
-  hashScheme: HashScheme;
-  note: string;
-  publishedAt: string;
-  payload: ResultsPayload;
-}
 
 function toVersion(r: typeof resultsSnapshots.$inferSelect): PublishedVersion {
   const hashScheme = isHashScheme(r.hashScheme) ? r.hashScheme : LEGACY_HASH_SCHEME;
@@ -180,12 +140,13 @@ export async function publishedResults(competitionId: string, version?: number):
   return r ? toVersion(r) : null;
 }
 
-export class PublishError extends Error {
+/** A refused publication (an AppError): about the note field, or about the compo's state. */
+export class PublishError extends AppError {
   constructor(
     readonly field: "note" | "state",
     message: string,
   ) {
-    super(message);
+    super(field === "note" ? 400 : 409, field === "note" ? "invalid_body" : "not_publishable", message, field === "note" ? { fieldErrors: { note: [message] } } : {});
     this.name = "PublishError";
   }
 }

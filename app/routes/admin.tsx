@@ -1,20 +1,13 @@
-import { count } from "drizzle-orm";
 import { requireAdmin } from "~/auth/guards.server";
-import { db } from "~/db/client.server";
-import { competitions, entries, events, user } from "~/db/schema";
+import { pageCall } from "~/errors/http.server";
+import { platformCounts } from "~/users/admin.server";
 import type { Route } from "./+types/admin";
 
 export const meta: Route.MetaFunction = () => [{ title: "Admin · Gatecrash" }];
 
 export async function loader({ request, context }: Route.LoaderArgs) {
-  await requireAdmin(request, context);
-  const [[u], [e], [c], [n]] = await Promise.all([
-    db().select({ n: count() }).from(user),
-    db().select({ n: count() }).from(events),
-    db().select({ n: count() }).from(competitions),
-    db().select({ n: count() }).from(entries),
-  ]);
-  return { users: u.n, events: e.n, competitions: c.n, entries: n.n };
+  const admin = await requireAdmin(request, context);
+  return pageCall(() => platformCounts(admin));
 }
 
 export default function Admin({ loaderData: d }: Route.ComponentProps) {

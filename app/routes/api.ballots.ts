@@ -2,7 +2,8 @@ import { z } from "zod";
 import { apiError, apiJson, parseJsonBody, requireMethod } from "~/api/json.server";
 import { competitionById } from "~/showcase/showcase.server";
 import { resolveVoter } from "~/voting/page.server";
-import { castBallot, codeHolderCookie, currentBallot, VoteError, windowStatus, type Voter } from "~/voting/voting.server";
+import { apiCall } from "~/errors/http.server";
+import { castBallot, codeHolderCookie, currentBallot, windowStatus, type Voter } from "~/voting/voting.server";
 import type { Route } from "./+types/api.ballots";
 
 /**
@@ -38,16 +39,8 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   if (voter) who = voter;
   else if (body.code) who = { kind: "new-code", code: body.code };
   else return apiError(401, "no_voter", "Sign in with a verified account, or send the vote code from your slip as `code`.");
-  try {
-    const out = await castBallot({ competitionId: c.id, voter: who, content: body.ballot });
-    const headers = new Headers();
-    if (out.holderToken) headers.set("Set-Cookie", codeHolderCookie(c.id, out.holderToken, c.votingClosesAt ? new Date(c.votingClosesAt) : null));
-    return apiJson({ ballot: out.content, replaced: out.replaced }, { headers });
-  } catch (e) {
-    if (!(e instanceof VoteError)) throw e;
-    const fieldErrors: Record<string, string[]> | undefined = e.problems.length ? { ballot: e.problems.map((p) => p.message) } : e.code.startsWith("code_") ? { code: [e.message] } : undefined;
-    const res = apiError(e.status, e.code, e.message, fieldErrors);
-    if (e.retryAfterSeconds) res.headers.set("Retry-After", String(e.retryAfterSeconds));
-    return res;
-  }
+  const out = await apiCall(() => castBallot({ competitionId: c.id, voter: who, content: body.ballot }));
+  const headers = new Headers();
+  if (out.holderToken) headers.set("Set-Cookie", codeHolderCookie(c.id, out.holderToken, c.votingClosesAt ? new Date(c.votingClosesAt) : null));
+  return apiJson({ ballot: out.content, replaced: out.replaced }, { headers });
 }

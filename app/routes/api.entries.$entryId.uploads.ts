@@ -1,6 +1,8 @@
 import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
-import { okJson, refusalResponse, startUploadSchema } from "~/entries/api.server";
-import { entryForUploader, startUpload } from "~/entries/uploads.server";
+import { apiCall } from "~/errors/http.server";
+import { okJson, startUploadSchema } from "~/entries/api.server";
+import { entryForUploader } from "~/entries/upload-access.server";
+import { startUpload } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.entries.$entryId.uploads";
 
 /** POST: start an upload of an entry (crew members): claimed files are checked against the ruleset first. */
@@ -10,7 +12,6 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   // who may upload is settled before the body is read
   if (!(await entryForUploader(params.entryId, user.id))) apiNotFound("That entry");
   const body = await parseJsonBody(request, startUploadSchema);
-  const out = await startUpload(params.entryId, user.id, body.files, new Date(), { repository: body.repository, licence: body.licence });
-  if (!out.ok) return refusalResponse(out);
+  const out = await apiCall(() => startUpload(params.entryId, user.id, body.files, new Date(), { repository: body.repository, licence: body.licence }));
   return okJson({ uploadId: out.uploadId, files: out.files }, 201);
 }

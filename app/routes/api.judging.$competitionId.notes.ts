@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { apiJson, parseJsonBody } from "~/api/json.server";
-import { apiCall, requireApiJudge } from "~/judging/http.server";
+import { apiCall } from "~/errors/http.server";
+import { requireApiJudge } from "~/judging/http.server";
 import { NOTE_MAX, saveNote } from "~/judging/scores.server";
 import type { Route } from "./+types/api.judging.$competitionId.notes";
 

@@ -1,7 +1,8 @@
 import { z } from "zod";
 import { apiJson, parseJsonBody } from "~/api/json.server";
 import { gridFor } from "~/judging/grid.server";
-import { apiCall, requireApiJudge } from "~/judging/http.server";
+import { apiCall } from "~/errors/http.server";
+import { requireApiJudge } from "~/judging/http.server";
 import { saveScore } from "~/judging/scores.server";
 import type { Route } from "./+types/api.judging.$competitionId.scores";
 

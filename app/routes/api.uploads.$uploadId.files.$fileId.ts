@@ -1,7 +1,9 @@
 import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
-import { fileActionSchema, okJson, refusalResponse } from "~/entries/api.server";
+import { apiCall } from "~/errors/http.server";
+import { fileActionSchema, okJson } from "~/entries/api.server";
 import { rulesetOf } from "~/entries/service.server";
-import { confirmFile, fileForUploader, recordPart, signParts, storedParts } from "~/entries/uploads.server";
+import { confirmFile, recordPart, signParts, storedParts } from "~/entries/multipart.server";
+import { fileForUploader } from "~/entries/upload-access.server";
 import type { Route } from "./+types/api.uploads.$uploadId.files.$fileId";
 
 /**
@@ -22,13 +24,13 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   if (!f) apiNotFound("That file");
   const body = await parseJsonBody(request, fileActionSchema);
   if (body.action === "sign") {
-    const out = await signParts(f.file, body.partNumbers);
-    return out.ok ? okJson({ urls: out.urls }) : refusalResponse(out);
+    const out = await apiCall(() => signParts(f.file, body.partNumbers));
+    return okJson({ urls: out.urls });
   }
   if (body.action === "part") {
-    const out = await recordPart(f.file, body);
-    return out.ok ? okJson({ recorded: out.recorded }) : refusalResponse(out);
+    const out = await apiCall(() => recordPart(f.file, body));
+    return okJson({ recorded: out.recorded });
   }
-  const out = await confirmFile(f.file, rulesetOf(f.competition.ruleset));
-  return out.ok ? okJson({ file: out.file }) : refusalResponse(out);
+  const out = await apiCall(() => confirmFile(f.file, rulesetOf(f.competition.ruleset)));
+  return okJson({ file: out.file });
 }

@@ -1,6 +1,8 @@
 import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
-import { claimedFileSchema, okJson, refusalResponse } from "~/entries/api.server";
-import { putFile, uploadForUploader } from "~/entries/uploads.server";
+import { apiCall } from "~/errors/http.server";
+import { claimedFileSchema, okJson } from "~/entries/api.server";
+import { uploadForUploader } from "~/entries/upload-access.server";
+import { putFile } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.uploads.$uploadId.files";
 
 /** POST: add a file to a pending upload, or replace one that was refused (crew members). */
@@ -10,7 +12,6 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   // who may upload is settled before the body is read
   if (!(await uploadForUploader(params.uploadId, user.id))) apiNotFound("That upload");
   const body = await parseJsonBody(request, claimedFileSchema);
-  const out = await putFile(params.uploadId, user.id, body);
-  if (!out.ok) return refusalResponse(out);
+  const out = await apiCall(() => putFile(params.uploadId, user.id, body));
   return okJson({ file: out.file }, 201);
 }

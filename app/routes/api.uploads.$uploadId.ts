@@ -1,6 +1,9 @@
 import { apiNotFound, parseJsonBody, requireApiUser, requireMethod } from "~/api/json.server";
-import { okJson, refusalResponse, uploadActionSchema } from "~/entries/api.server";
-import { abandonUpload, completeUpload, pendingUploadFiles, uploadForUploader } from "~/entries/uploads.server";
+import { apiCall } from "~/errors/http.server";
+import { okJson, uploadActionSchema } from "~/entries/api.server";
+import { pendingUploadFiles } from "~/entries/multipart.server";
+import { uploadForUploader } from "~/entries/upload-access.server";
+import { abandonUpload, completeUpload } from "~/entries/uploads.server";
 import type { Route } from "./+types/api.uploads.$uploadId";
 
 /** GET: an upload's state and files (to resume). POST {action: complete | abandon}. Crew members only; others get 404. */
@@ -18,7 +21,6 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   if (!up) apiNotFound("That upload");
   const body = await parseJsonBody(request, uploadActionSchema);
   if (body.action === "abandon") return okJson({ abandoned: await abandonUpload(up.upload.id) });
-  const out = await completeUpload(up.upload.id, user.id);
-  if (!out.ok) return refusalResponse(out);
+  const out = await apiCall(() => completeUpload(up.upload.id, user.id));
   return okJson({ ...out.upload, already: out.already });
 }

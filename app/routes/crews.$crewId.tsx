@@ -10,6 +10,7 @@ import { crewForMember, inviteToCrew, leaveCrew, makeCaptain } from "~/crews/ser
 import type { Route } from "./+types/crews.$crewId";
 import { readForm } from "~/api/body.server";
 import { isId } from "~/security/ids";
+import { attempt, formReply } from "~/errors/http.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.crew.name ?? "Crew"} · Gatecrash` }];
 
@@ -32,28 +33,30 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   };
 }
 
-const otherSchema = z.discriminatedUnion("intent", [z.object({ intent: z.literal("leave") }), z.object({ intent: z.literal("captain"), memberId: z.string().min(1) })]);
+/** Every form of this page in one schema, told apart by `intent`. */
+const actionSchema = z.discriminatedUnion("intent", [inviteFormSchema, z.object({ intent: z.literal("leave") }), z.object({ intent: z.literal("captain"), memberId: z.string().min(1) })]);
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, view } = await load(request, context, params.crewId);
-  const form = await readForm(request);
-  if (form.get("intent") === "invite") {
-    const submission = parseWithZod(form, { schema: inviteFormSchema });
-    if (submission.status !== "success") return { invite: submission.reply(), notice: null };
-    if (view.myRole !== "captain") return { invite: submission.reply({ formErrors: ["Only a captain can invite."] }), notice: null };
-    const out = await inviteToCrew(view.crew.id, user, submission.value.email);
-    if (!out.ok) return { invite: submission.reply({ fieldErrors: { email: [out.message] } }), notice: null };
-    return { invite: submission.reply({ resetForm: true }), notice: `Invitation sent to ${submission.value.email}.` };
+  const submission = parseWithZod(await readForm(request), { schema: actionSchema });
+  if (submission.status !== "success") {
+    if (submission.payload.intent === "invite") return { invite: submission.reply(), notice: null };
+    throw data({ message: "Unknown action." }, { status: 400 });
   }
-  const parsed = otherSchema.safeParse(Object.fromEntries(form));
-  if (!parsed.success) throw data({ message: "Unknown action." }, { status: 400 });
-  if (parsed.data.intent === "leave") {
-    const out = await leaveCrew(view.crew.id, user.id);
-    if (!out.ok) return { invite: null, notice: out.message };
+  const v = submission.value;
+  if (v.intent === "invite") {
+    if (view.myRole !== "captain") return { invite: submission.reply({ formErrors: ["Only a captain can invite."] }), notice: null };
+    const out = await attempt(() => inviteToCrew(view.crew.id, user, v.email));
+    if (!out.ok) return { invite: formReply(submission, out.error), notice: null };
+    return { invite: submission.reply({ resetForm: true }), notice: `Invitation sent to ${v.email}.` };
+  }
+  if (v.intent === "leave") {
+    const out = await attempt(() => leaveCrew(view.crew.id, user.id));
+    if (!out.ok) return { invite: null, notice: out.error.message };
     return redirect("/my/entries");
   }
-  const out = await makeCaptain(view.crew.id, user.id, parsed.data.memberId);
-  return { invite: null, notice: out.ok ? "Captaincy shared." : out.message };
+  const out = await attempt(() => makeCaptain(view.crew.id, user.id, v.memberId));
+  return { invite: null, notice: out.ok ? "Captaincy shared." : out.error.message };
 }
 
 export default function CrewPage({ loaderData }: Route.ComponentProps) {

@@ -8,6 +8,7 @@ import { crewFormSchema } from "~/crews/rules";
 import { createCrew } from "~/crews/service.server";
 import type { Route } from "./+types/crews.new";
 import { readForm } from "~/api/body.server";
+import { attempt, formReply } from "~/errors/http.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "New crew · Gatecrash" }];
 
@@ -22,8 +23,8 @@ export async function action({ request, context }: Route.ActionArgs) {
   const user = await requireUser(request, context);
   const submission = parseWithZod(await readForm(request), { schema: crewFormSchema });
   if (submission.status !== "success") return submission.reply();
-  const out = await createCrew(user.id, submission.value);
-  if (!out.ok) return submission.reply({ fieldErrors: { [out.field ?? "handle"]: [out.message] } });
+  const out = await attempt(() => createCrew(user.id, submission.value));
+  if (!out.ok) return formReply(submission, out.error);
   const next = safeNext(request);
   return redirect(next ?? `/crews/${out.value.id}`);
 }

@@ -12,6 +12,7 @@ import { competitionBySlugs, createEntry, entriesOfCrewsOf } from "~/entries/ser
 import { formatMoney } from "~/payments/states";
 import type { Route } from "./+types/e.$eventSlug.$competitionSlug.enter";
 import { readForm } from "~/api/body.server";
+import { attempt, formReply } from "~/errors/http.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Enter ${data?.competition.title ?? "a compo"} · Gatecrash` }];
 
@@ -41,9 +42,9 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, competition } = await load(request, context, params);
   const submission = parseWithZod(await readForm(request), { schema: entryFormSchema });
   if (submission.status !== "success") return submission.reply();
-  const out = await createEntry(user, competition.id, submission.value);
-  if (!out.ok) return submission.reply(out.field ? { fieldErrors: { [out.field]: [out.message] } } : { formErrors: [out.message] });
-  return redirect(`/entries/${out.entryId}`);
+  const out = await attempt(() => createEntry(user, competition.id, submission.value));
+  if (!out.ok) return formReply(submission, out.error);
+  return redirect(`/entries/${out.value.entryId}`);
 }
 
 export default function Enter({ loaderData }: Route.ComponentProps) {

@@ -16,6 +16,7 @@ import { entryPageExtras, grantFromForm, parseEntryIntent, pickFinal, revokeFrom
 import { LateExceptionCard } from "~/components/LateExceptionCard";
 import { UploadCompare } from "~/components/UploadCompare";
 import { FILE_KINDS, type FileKind } from "~/entries/sniff";
+import { actionError, attempt } from "~/errors/http.server";
 import { paymentsOfEntry, startCheckout } from "~/payments/service.server";
 import { formatMoney } from "~/payments/states";
 import type { Route } from "./+types/entries.$entryId";
@@ -63,17 +64,17 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   if (!intent) throw data({ message: "Unknown action." }, { status: 400 });
   if (intent.intent === "grant-late" || intent.intent === "revoke-late") {
     if (viewer.role !== "organizer") throw data({ message: "Only the organizer grants late exceptions." }, { status: 403 });
-    const out = intent.intent === "grant-late" ? await grantFromForm(entry.id, user.id, event.timeZone, intent.until, intent.reason) : await revokeFromForm(entry.id, user.id);
-    return out.ok ? { notice: out.notice } : { error: out.error, field: out.field };
+    const out = await attempt(() => (intent.intent === "grant-late" ? grantFromForm(entry.id, user.id, event.timeZone, intent.until, intent.reason) : revokeFromForm(entry.id, user.id)));
+    return out.ok ? out.value : actionError(out.error);
   }
   if (viewer.role !== "crew") throw data({ message: "Only the crew can do that." }, { status: 403 });
   if (intent.intent === "final") {
-    const out = await pickFinal(entry.id, user.id, intent.upload);
-    return out.ok ? { notice: out.notice } : { error: out.error };
+    const out = await attempt(() => pickFinal(entry.id, user.id, intent.upload));
+    return out.ok ? out.value : actionError(out.error);
   }
-  const out = await startCheckout(entry.id, user);
-  if (!out.ok) return { error: out.message };
-  return redirect(out.url);
+  const out = await attempt(() => startCheckout(entry.id, user));
+  if (!out.ok) return actionError(out.error);
+  return redirect(out.value.url);
 }
 
 const FEE_TEXT: Record<string, { label: string; cls: string }> = {

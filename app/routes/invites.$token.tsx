@@ -2,6 +2,7 @@ import { Form, redirect, useActionData } from "react-router";
 import { requireUser } from "~/auth/guards.server";
 import { acceptInvite, INVITE_PROBLEM_TEXT, inviteByToken, inviteProblem } from "~/crews/service.server";
 import type { Route } from "./+types/invites.$token";
+import { actionError, attempt } from "~/errors/http.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Crew invitation · Gatecrash" }];
 
@@ -14,8 +15,8 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const user = await requireUser(request, context);
-  const out = await acceptInvite(params.token, user.id);
-  if (!out.ok) return { error: out.message };
+  const out = await attempt(() => acceptInvite(params.token, user.id));
+  if (!out.ok) return actionError(out.error);
   return redirect(`/crews/${out.value.crewId}`);
 }
 

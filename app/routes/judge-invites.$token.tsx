@@ -1,6 +1,6 @@
 import { data, Form, Link, redirect } from "react-router";
 import { requireUser } from "~/auth/guards.server";
-import { pageCall } from "~/judging/http.server";
+import { pageCall } from "~/errors/http.server";
 import { acceptInvite, findInvite } from "~/judging/jury.server";
 import type { Route } from "./+types/judge-invites.$token";
 

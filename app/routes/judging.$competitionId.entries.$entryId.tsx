@@ -10,7 +10,7 @@ import { lateNoteForJury } from "~/entries/late-exception.server";
 import { competitionForJudge } from "~/judging/access.server";
 import { conflictReasonSchema } from "~/judging/forms";
 import { entryForJudge } from "~/judging/grid.server";
-import { pageCall } from "~/judging/http.server";
+import { pageCall } from "~/errors/http.server";
 import { declareConflict } from "~/judging/jury.server";
 import { FIGURE_SECTIONS, figureRows } from "~/judging/presentation";
 import { flashSummary } from "~/showcase/figures";

@@ -1,12 +1,10 @@
-import { eq, inArray } from "drizzle-orm";
 import { Link } from "react-router";
-import { crewIdsOf, requireUser } from "~/auth/guards.server";
+import { requireUser } from "~/auth/guards.server";
 import { publicCompetitions } from "~/competitions/listing.server";
 import { formatInZone } from "~/competitions/timezone";
 import { StateBadge } from "~/components/StateBadge";
 import { crewsOf } from "~/crews/service.server";
-import { db } from "~/db/client.server";
-import { competitions, crews, entries, events } from "~/db/schema";
+import { entriesOfMember } from "~/entries/service.server";
 import type { Route } from "./+types/my.entries";
 
 export const meta: Route.MetaFunction = () => [{ title: "My entries · Gatecrash" }];
@@ -15,33 +13,12 @@ const FEE: Record<string, string> = { not_required: "no fee", unpaid: "fee unpai
 
 export async function loader({ request, context }: Route.LoaderArgs) {
   const user = await requireUser(request, context);
-  const crewIds = await crewIdsOf(user.id);
-  const rows =
-    crewIds.length === 0
-      ? []
-      : await db()
-          .select({
-            id: entries.id,
-            title: entries.title,
-            feeState: entries.feeState,
-            state: entries.state,
-            crewId: entries.crewId,
-            competitionId: entries.competitionId,
-            crew: crews.name,
-            competition: competitions.title,
-            competitionState: competitions.state,
-            event: events.title,
-          })
-          .from(entries)
-          .innerJoin(crews, eq(crews.id, entries.crewId))
-          .innerJoin(competitions, eq(competitions.id, entries.competitionId))
-          .innerJoin(events, eq(events.id, competitions.eventId))
-          .where(inArray(entries.crewId, crewIds));
+  const rows = await entriesOfMember(user.id);
   const myCrews = await crewsOf(user.id);
   const open = (await publicCompetitions()).filter((c) => c.state === "open");
   return {
     entries: rows,
-    hasCrew: crewIds.length > 0,
+    hasCrew: myCrews.length > 0,
     crews: myCrews,
     // An open compo is worth offering while at least one of my crews has not entered it.
     // The deadline text is made here: browsers refuse formatInZone's option mix (dateStyle with timeZoneName).

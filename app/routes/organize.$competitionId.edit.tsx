@@ -9,6 +9,7 @@ import { criteriaOf, FROZEN_STATES, importRuleset, storedRuleset, updateCompetit
 import { CompetitionForm } from "~/competitions/ui/CompetitionForm";
 import { FieldError } from "~/competitions/ui/fields";
 import { FormErrors } from "~/components/FormField";
+import { attempt, formReply } from "~/errors/http.server";
 import type { Route } from "./+types/organize.$competitionId.edit";
 import { readForm } from "~/api/body.server";
 
@@ -42,14 +43,16 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     }
     const parsed = parseRulesetJson(text);
     if (!parsed.ok) return { form: "import" as const, result: submission.reply({ fieldErrors: { rulesetJson: parsed.errors } }) };
-    const saved = await importRuleset(user.id, competition, parsed.ruleset);
-    if (!saved.ok) return { form: "import" as const, result: submission.reply({ fieldErrors: saved.fieldErrors }) };
+    const { ruleset } = parsed;
+    const saved = await attempt(() => importRuleset(user.id, competition, ruleset));
+    if (!saved.ok) return { form: "import" as const, result: formReply(submission, saved.error) };
     return redirect(`/organize/${competition.id}/edit?imported=${saved.value.version}`);
   }
   const submission = parseWithZod(formData, { schema: competitionFormSchema(event.timeZone) });
   if (submission.status !== "success") return { form: "competition" as const, result: submission.reply() };
-  const saved = await updateCompetition(user.id, competition, competitionValues(submission.value, event.timeZone));
-  if (!saved.ok) return { form: "competition" as const, result: submission.reply({ fieldErrors: saved.fieldErrors, formErrors: saved.formErrors }) };
+  const values = competitionValues(submission.value, event.timeZone);
+  const saved = await attempt(() => updateCompetition(user.id, competition, values));
+  if (!saved.ok) return { form: "competition" as const, result: formReply(submission, saved.error) };
   return redirect(`/organize/${competition.id}?saved=1`);
 }
 

@@ -1,28 +1,19 @@
-import { and, eq } from "drizzle-orm";
 import { data, Form, redirect } from "react-router";
 import type { RequestContext } from "~/auth/guards.server";
 import { requireCompetitionRole } from "~/competitions/access.server";
-import { db } from "~/db/client.server";
-import { crews, entries } from "~/db/schema";
-import { paymentsOfEntry, refundEntryFee } from "~/payments/service.server";
+import { actionError, attempt } from "~/errors/http.server";
+import { entryForRefund, paymentsOfEntry, refundEntryFee } from "~/payments/service.server";
 import { formatMoney } from "~/payments/states";
 import { safeRedirect } from "~/auth/redirect";
 import type { Route } from "./+types/organize.$competitionId.entries.$entryId.refund";
 import { readForm } from "~/api/body.server";
-import { isId } from "~/security/ids";
 
 export const meta: Route.MetaFunction = () => [{ title: "Refund entry fee · Gatecrash" }];
 
 /** The organizer of the competition's event only; an id from elsewhere is a 404 before anything else. */
 async function load(request: Request, context: RequestContext, competitionId: string, entryId: string) {
   const { user, competition: c } = await requireCompetitionRole(request, context, competitionId, "organizer");
-  const [row] = isId(entryId)
-    ? await db()
-        .select({ entry: entries, crew: crews })
-        .from(entries)
-        .innerJoin(crews, eq(crews.id, entries.crewId))
-        .where(and(eq(entries.id, entryId), eq(entries.competitionId, c.id)))
-    : [];
+  const row = await entryForRefund(c.id, entryId);
   if (!row) throw data({ message: "That entry is not in this competition." }, { status: 404 });
   return { user, competition: c, ...row };
 }
@@ -47,8 +38,8 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, competition, entry } = await load(request, context, params.competitionId, params.entryId);
   const form = await readForm(request);
-  const out = await refundEntryFee(competition.id, entry.id, user.id);
-  if (!out.ok) return { error: out.message };
+  const out = await attempt(() => refundEntryFee(competition.id, entry.id, user.id));
+  if (!out.ok) return actionError(out.error);
   return redirect(safeBack(form.get("redirectTo")) ?? `/organize/${competition.id}/entries/${entry.id}/refund?requested=1`);
 }
 

@@ -7,6 +7,7 @@ import { formatInZone } from "~/competitions/timezone";
 import { EntriesTable, type EntryRowView } from "~/competitions/ui/EntriesTable";
 import { StateBadge } from "~/components/StateBadge";
 import { env } from "~/env.server";
+import { attempt, formReply } from "~/errors/http.server";
 import type { Route } from "./+types/organize.$competitionId.entries";
 import { readForm } from "~/api/body.server";
 
@@ -39,9 +40,10 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const submission = parseWithZod(formData, { schema: disqualifySchema });
   const entryId = String(formData.get("entryId") ?? "");
   if (submission.status !== "success") return { entryId, result: submission.reply() };
-  const done = await disqualifyEntry({ actorUserId: user.id, competition, entryId: submission.value.entryId, reason: submission.value.reason, appUrl: env().APP_URL });
-  if (!done.ok) return data({ entryId, result: submission.reply({ formErrors: [done.error] }) }, { status: done.status });
-  return { entryId, result: submission.reply({ resetForm: true }), mailed: done.mailed };
+  const { entryId: target, reason } = submission.value;
+  const done = await attempt(() => disqualifyEntry({ actorUserId: user.id, competition, entryId: target, reason, appUrl: env().APP_URL }));
+  if (!done.ok) return data({ entryId, result: formReply(submission, done.error) }, { status: done.error.status });
+  return { entryId, result: submission.reply({ resetForm: true }), mailed: done.value.mailed };
 }
 
 export default function CompetitionEntries({ loaderData }: Route.ComponentProps) {

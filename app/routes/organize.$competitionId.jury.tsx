@@ -5,9 +5,9 @@ import { z } from "zod";
 import { FormErrors } from "~/components/FormField";
 import { StateBadge } from "~/components/StateBadge";
 import { env } from "~/env.server";
-import { JudgingError } from "~/judging/errors";
 import { inviteSchema, lockSchema, optionsSchema, organizerConflictSchema } from "~/judging/forms";
-import { pageCall, requireJuryOrganizer } from "~/judging/http.server";
+import { attempt, formReply, pageCall } from "~/errors/http.server";
+import { requireJuryOrganizer } from "~/judging/http.server";
 import { declareConflict, inviteJudge, juryOverview, removeConflict, revokeInvite, setAssignment, setJudgingLocked, setJudgingOptions } from "~/judging/jury.server";
 import type { Route } from "./+types/organize.$competitionId.jury";
 import { readForm } from "~/api/body.server";
@@ -23,55 +23,51 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 }
 
 const assignSchema = z.object({ intent: z.literal("assign"), judgeUserId: z.string().min(1), assigned: z.enum(["true", "false"]) });
-const idSchema = z.object({ intent: z.enum(["revoke", "remove-conflict"]), id: z.string().min(1) });
+const idSchema = (intent: "revoke" | "remove-conflict") => z.object({ intent: z.literal(intent), id: z.string().min(1) });
+/** Every form of this page in one schema, told apart by `intent`. */
+const actionSchema = z.discriminatedUnion("intent", [inviteSchema, organizerConflictSchema, optionsSchema, lockSchema, assignSchema, idSchema("revoke"), idSchema("remove-conflict")]);
+/** The forms that show their own field errors; the others are buttons, whose bad request is a 400. */
+const FORM_INTENTS = ["invite", "conflict", "options", "lock"] as const;
+type FormIntent = (typeof FORM_INTENTS)[number];
+const isFormIntent = (v: string): v is FormIntent => (FORM_INTENTS as readonly string[]).includes(v);
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, c } = await requireJuryOrganizer(request, context, params.competitionId);
   const form = await readForm(request);
-  const intent = String(form.get("intent") ?? "");
-  if (intent === "invite") {
-    const s = parseWithZod(form, { schema: inviteSchema });
-    if (s.status !== "success") return { intent, result: s.reply() };
-    try {
-      await inviteJudge({ competition: c, email: s.value.email, invitedBy: user.id, appUrl: env().APP_URL });
-    } catch (e) {
-      if (e instanceof JudgingError && e.fieldErrors) return { intent, result: s.reply({ fieldErrors: e.fieldErrors }) };
-      throw e;
+  const s = parseWithZod(form, { schema: actionSchema });
+  if (s.status !== "success") {
+    const intent = String(form.get("intent") ?? "");
+    if (isFormIntent(intent)) return { intent, result: s.reply() };
+    if (intent === "assign") throw data({ message: "That assignment request is not valid." }, { status: 400 });
+    if (intent === "revoke" || intent === "remove-conflict") throw data({ message: "That request is not valid." }, { status: 400 });
+    throw data({ message: "Unknown action." }, { status: 400 });
+  }
+  const v = s.value;
+  switch (v.intent) {
+    case "invite": {
+      const out = await attempt(() => inviteJudge({ competition: c, email: v.email, invitedBy: user.id, appUrl: env().APP_URL }));
+      if (!out.ok) return { intent: v.intent, result: formReply(s, out.error) };
+      return { intent: v.intent, result: s.reply({ resetForm: true }), notice: `Invitation sent to ${v.email}.` };
     }
-    return { intent, result: s.reply({ resetForm: true }), notice: `Invitation sent to ${s.value.email}.` };
+    case "conflict":
+      await pageCall(() => declareConflict(c, { entryId: v.entryId, judgeUserId: v.judgeUserId, reason: v.reason, declaredBy: user.id }));
+      return { intent: v.intent, result: s.reply({ resetForm: true }), notice: "Conflict recorded." };
+    case "options":
+      await setJudgingOptions(c, { blindJudging: v.blindJudging, orderMode: v.orderMode }, user.id);
+      return { intent: v.intent, result: s.reply(), notice: "Judging options saved." };
+    case "lock":
+      await setJudgingLocked(c, v.locked === "true", user.id, v.reason ?? "");
+      return { intent: v.intent, result: s.reply(), notice: v.locked === "true" ? "Judging closed: scores are locked." : "Judging reopened (logged)." };
+    case "assign":
+      await pageCall(() => setAssignment(c, v.judgeUserId, v.assigned === "true", user.id));
+      return { intent: v.intent, notice: v.assigned === "true" ? "Judge assigned." : "Judge taken off this jury." };
+    case "revoke":
+      await pageCall(() => revokeInvite(c, v.id, user.id));
+      return { intent: v.intent, notice: "Invitation withdrawn." };
+    case "remove-conflict":
+      await pageCall(() => removeConflict(c, v.id, user.id));
+      return { intent: v.intent, notice: "Conflict withdrawn." };
   }
-  if (intent === "conflict") {
-    const s = parseWithZod(form, { schema: organizerConflictSchema });
-    if (s.status !== "success") return { intent, result: s.reply() };
-    await pageCall(() => declareConflict(c, { entryId: s.value.entryId, judgeUserId: s.value.judgeUserId, reason: s.value.reason, declaredBy: user.id }));
-    return { intent, result: s.reply({ resetForm: true }), notice: "Conflict recorded." };
-  }
-  if (intent === "options") {
-    const s = parseWithZod(form, { schema: optionsSchema });
-    if (s.status !== "success") return { intent, result: s.reply() };
-    await setJudgingOptions(c, { blindJudging: s.value.blindJudging, orderMode: s.value.orderMode }, user.id);
-    return { intent, result: s.reply(), notice: "Judging options saved." };
-  }
-  if (intent === "lock") {
-    const s = parseWithZod(form, { schema: lockSchema });
-    if (s.status !== "success") return { intent, result: s.reply() };
-    await setJudgingLocked(c, s.value.locked === "true", user.id, s.value.reason ?? "");
-    return { intent, result: s.reply(), notice: s.value.locked === "true" ? "Judging closed: scores are locked." : "Judging reopened (logged)." };
-  }
-  if (intent === "assign") {
-    const s = assignSchema.safeParse(Object.fromEntries(form));
-    if (!s.success) throw data({ message: "That assignment request is not valid." }, { status: 400 });
-    await pageCall(() => setAssignment(c, s.data.judgeUserId, s.data.assigned === "true", user.id));
-    return { intent, notice: s.data.assigned === "true" ? "Judge assigned." : "Judge taken off this jury." };
-  }
-  if (intent === "revoke" || intent === "remove-conflict") {
-    const s = idSchema.safeParse(Object.fromEntries(form));
-    if (!s.success) throw data({ message: "That request is not valid." }, { status: 400 });
-    if (intent === "revoke") await pageCall(() => revokeInvite(c, s.data.id, user.id));
-    else await pageCall(() => removeConflict(c, s.data.id, user.id));
-    return { intent, notice: intent === "revoke" ? "Invitation withdrawn." : "Conflict withdrawn." };
-  }
-  throw data({ message: "Unknown action." }, { status: 400 });
 }
 
 export default function OrganizeJury({ loaderData }: Route.ComponentProps) {
@@ -99,14 +95,6 @@ export default function OrganizeJury({ loaderData }: Route.ComponentProps) {
           <h1 className="text-display font-extrabold">Jury of {c.title}</h1>
           <StateBadge state={c.state} />
         </div>
-        <nav aria-label="Compo pages" className="mt-3 flex gap-2 text-sm">
-          <Link to={`/organize/${c.id}`} className="btn-quiet">
-            Dashboard
-          </Link>
-          <Link to={`/organize/${c.id}/standings`} className="btn-quiet">
-            Standings
-          </Link>
-        </nav>
         {actionData?.notice && (
           <p role="status" className="mt-4 rounded-md border border-pass bg-pass-soft px-3 py-2 text-sm font-medium text-pass">
             {actionData.notice}

@@ -63,8 +63,6 @@ export default function StageRunningOrder({ loaderData, actionData }: Route.Comp
       <p className="kicker">Organize · {c.eventTitle}</p>
       <h1 className="mt-1 text-display font-extrabold">Stage running order: {c.title}</h1>
       <nav aria-label="Competition tools" className="mt-4 flex flex-wrap gap-2">
-        <Link className="btn-quiet" to={`/organize/${c.id}/audience`}>Audience vote</Link>
-        <Link className="btn-quiet" to={`/organize/${c.id}/results`}>Results</Link>
         <Link className="btn-quiet" to={`/stage/${c.id}`}>Open stage mode</Link>
       </nav>
 

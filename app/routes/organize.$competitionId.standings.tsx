@@ -55,14 +55,6 @@ export default function Standings({ loaderData }: Route.ComponentProps) {
           Computed live from the scores of the assigned judges{c.locked ? " (judging is closed: scores are locked)" : " — reload to see new scores"}.
           {view.excludedConflicted > 0 && ` ${view.excludedConflicted} score(s) left out because their judge has a conflict with the entry.`}
         </p>
-        <nav aria-label="Compo pages" className="mt-3 flex gap-2 text-sm">
-          <Link to={`/organize/${c.id}`} className="btn-quiet">
-            Dashboard
-          </Link>
-          <Link to={`/organize/${c.id}/jury`} className="btn-quiet">
-            Jury
-          </Link>
-        </nav>
       </header>
 
       <Form method="post" {...getFormProps(form)} className="card flex flex-wrap items-end gap-4">

@@ -7,6 +7,7 @@ import { cutoffOf } from "~/entries/deadline";
 import { entryCounts, moveCompetition } from "~/competitions/service.server";
 import { formatInZone } from "~/competitions/timezone";
 import { StateBadge } from "~/components/StateBadge";
+import { actionError, attempt } from "~/errors/http.server";
 import type { Route } from "./+types/organize.$competitionId";
 import { readForm } from "~/api/body.server";
 
@@ -45,8 +46,9 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, competition } = await requireCompetitionRole(request, context, params.competitionId, "organizer");
   const parsed = moveSchema.safeParse(Object.fromEntries(await readForm(request)));
   if (!parsed.success) return data({ error: "Pick one of the offered moves." }, { status: 400 });
-  const moved = await moveCompetition(user.id, competition, parsed.data.to);
-  if (!moved.ok) return data({ error: moved.error }, { status: 409 });
+  const { to } = parsed.data;
+  const moved = await attempt(() => moveCompetition(user.id, competition, to));
+  if (!moved.ok) return data(actionError(moved.error), { status: moved.error.status });
   return { ok: true as const, error: null };
 }
 
@@ -141,14 +143,8 @@ export default function CompetitionDashboard({ loaderData }: Route.ComponentProp
             Tools
           </h2>
           <ul className="space-y-2 text-sm font-semibold">
-            <li><Link className="text-signal" to={`${base}/edit`}>Edit compo and ruleset</Link></li>
-            <li><Link className="text-signal" to={`${base}/entries`}>Entries</Link></li>
             <li><a className="text-signal" href={`${base}/ruleset.json`} download>Export ruleset.json</a></li>
             <li><Link className="text-signal" to={publicUrl}>{c.state === "draft" ? "Preview the public rules page" : "Public rules page"}</Link></li>
-            <li><Link className="text-signal" to={`${base}/jury`}>Jury</Link></li>
-            <li><Link className="text-signal" to={`${base}/standings`}>Standings</Link></li>
-            <li><Link className="text-signal" to={`${base}/audience`}>Audience vote</Link></li>
-            <li><Link className="text-signal" to={`${base}/results`}>Results</Link></li>
           </ul>
         </nav>
       </div>

@@ -55,12 +55,6 @@ export default function OrganizeAudience({ loaderData, actionData }: Route.Compo
         <Link className="btn-quiet" to={`/e/${c.eventSlug}/${c.slug}/vote`}>
           The vote page
         </Link>
-        <Link className="btn-quiet" to={`/organize/${c.id}/results`}>
-          Results
-        </Link>
-        <Link className="btn-quiet" to={`/organize/${c.id}/stage`}>
-          Stage running order
-        </Link>
         <Link className="btn-quiet" to={`/stage/${c.id}`}>
           Stage mode
         </Link>

@@ -5,6 +5,7 @@ import { requireEventRole } from "~/competitions/access.server";
 import { competitionFormSchema, competitionToForm, competitionValues } from "~/competitions/forms";
 import { createCompetition } from "~/competitions/service.server";
 import { CompetitionForm } from "~/competitions/ui/CompetitionForm";
+import { attempt, formReply } from "~/errors/http.server";
 import type { Route } from "./+types/organize.events.$eventId.competitions.new";
 import { readForm } from "~/api/body.server";
 
@@ -38,8 +39,8 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, event } = await requireEventRole(request, context, params.eventId, "organizer");
   const submission = parseWithZod(await readForm(request), { schema: competitionFormSchema(event.timeZone) });
   if (submission.status !== "success") return submission.reply();
-  const saved = await createCompetition(user.id, event.id, competitionValues(submission.value, event.timeZone));
-  if (!saved.ok) return submission.reply({ fieldErrors: saved.fieldErrors, formErrors: saved.formErrors });
+  const saved = await attempt(() => createCompetition(user.id, event.id, competitionValues(submission.value, event.timeZone)));
+  if (!saved.ok) return formReply(submission, saved.error);
   return redirect(`/organize/${saved.value.id}`);
 }
 

@@ -6,8 +6,9 @@ import { readForm } from "~/api/body.server";
 import { requireEventRole } from "~/competitions/access.server";
 import { FormErrors } from "~/components/FormField";
 import { partyFormSchema, partyCodesSchema } from "~/party/forms";
-import { AwardError, awardCandidates, awardsOfEvent, createAward, deleteAward, updateAward } from "~/results/awards.server";
-import { CodeBookError, issueVoteCodes, partyCodes, unused, votableCompos } from "~/voting/code-book.server";
+import { awardCandidates, awardsOfEvent, createAward, deleteAward, updateAward } from "~/results/awards.server";
+import { issueVoteCodes, partyCodes, unused, votableCompos } from "~/voting/code-book.server";
+import { attempt, formReply } from "~/errors/http.server";
 import type { Route } from "./+types/organize.events.$eventId.party";
 
 /** The organizer's party desk: party-wide vote codes, awards, and the after-party archive and shuttle export. */
@@ -28,25 +29,23 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const submission = parseWithZod(await readForm(request), { schema: partyFormSchema });
   if (submission.status !== "success") return { result: submission.reply(), done: null };
   const v = submission.value;
-  try {
+  const out = await attempt(async () => {
     if (v.intent === "codes") {
       const made = await issueVoteCodes({ eventId: event.id, competitionIds: v.compos, n: v.count, partyWide: true });
       await audit({ actorUserId: user.id, eventId: event.id, action: "vote-codes.generated", subjectType: "event", subjectId: event.id, details: { count: made.length, partyWide: true, competitionIds: v.compos } });
-      return { result: submission.reply({ resetForm: true }), done: `${made.length} party-wide codes made.` };
+      return { reset: true, done: `${made.length} party-wide codes made.` };
     }
     if (v.intent === "award-delete") {
       await deleteAward(user.id, event.id, v.awardId);
-      return { result: submission.reply(), done: "Award removed." };
+      return { reset: false, done: "Award removed." };
     }
     const input = { title: v.title, citation: v.citation, winnerEntryId: v.winnerEntryId ?? null };
     if (v.intent === "award-add") await createAward(user.id, event.id, input);
     else if (v.awardId) await updateAward(user.id, event.id, v.awardId, input);
-    return { result: submission.reply({ resetForm: v.intent === "award-add" }), done: v.intent === "award-add" ? "Award added." : "Award saved." };
-  } catch (e) {
-    if (e instanceof AwardError) return { result: submission.reply({ fieldErrors: e.field === "award" ? {} : { [e.field]: [e.message] }, formErrors: e.field === "award" ? [e.message] : [] }), done: null };
-    if (e instanceof CodeBookError) return { result: submission.reply({ formErrors: [e.message] }), done: null };
-    throw e;
-  }
+    return { reset: v.intent === "award-add", done: v.intent === "award-add" ? "Award added." : "Award saved." };
+  });
+  if (!out.ok) return { result: formReply(submission, out.error), done: null };
+  return { result: submission.reply({ resetForm: out.value.reset }), done: out.value.done };
 }
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Party desk · ${data?.event.title ?? "Event"} · Gatecrash` }];

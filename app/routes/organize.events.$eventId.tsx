@@ -6,6 +6,7 @@ import { competitionsOfEvent, updateEvent } from "~/competitions/service.server"
 import { formatInZone, timeZoneNames, utcToZonedWallTime } from "~/competitions/timezone";
 import { EventForm } from "~/competitions/ui/EventForm";
 import { StateBadge } from "~/components/StateBadge";
+import { attempt, formReply } from "~/errors/http.server";
 import type { Route } from "./+types/organize.events.$eventId";
 import { readForm } from "~/api/body.server";
 
@@ -35,8 +36,8 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, event } = await requireEventRole(request, context, params.eventId, "organizer");
   const submission = parseWithZod(await readForm(request), { schema: eventFormSchema });
   if (submission.status !== "success") return submission.reply();
-  const saved = await updateEvent(user.id, event.id, submission.value);
-  if (!saved.ok) return submission.reply({ fieldErrors: saved.fieldErrors });
+  const saved = await attempt(() => updateEvent(user.id, event.id, submission.value));
+  if (!saved.ok) return formReply(submission, saved.error);
   return submission.reply();
 }
 

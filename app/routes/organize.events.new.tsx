@@ -5,6 +5,7 @@ import { eventFormSchema } from "~/competitions/forms";
 import { createEvent } from "~/competitions/service.server";
 import { timeZoneNames } from "~/competitions/timezone";
 import { EventForm } from "~/competitions/ui/EventForm";
+import { attempt, formReply } from "~/errors/http.server";
 import type { Route } from "./+types/organize.events.new";
 import { readForm } from "~/api/body.server";
 
@@ -19,8 +20,8 @@ export async function action({ request, context }: Route.ActionArgs) {
   const user = await requireUser(request, context);
   const submission = parseWithZod(await readForm(request), { schema: eventFormSchema });
   if (submission.status !== "success") return submission.reply();
-  const saved = await createEvent(user.id, submission.value);
-  if (!saved.ok) return submission.reply({ fieldErrors: saved.fieldErrors });
+  const saved = await attempt(() => createEvent(user.id, submission.value));
+  if (!saved.ok) return formReply(submission, saved.error);
   return redirect(`/organize/events/${saved.value.id}`);
 }
 

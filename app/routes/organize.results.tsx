@@ -4,7 +4,8 @@ import { Form, Link, useNavigation } from "react-router";
 import { FormErrors } from "~/components/FormField";
 import { PrizeCaution, ShowcaseStandings } from "~/components/ShowcaseStandings";
 import { METHOD_NAMES } from "~/results/format";
-import { computeStandings, PublishError, publishedVersions, publishResults } from "~/results/results.server";
+import { attempt, formReply } from "~/errors/http.server";
+import { computeStandings, publishedVersions, publishResults } from "~/results/results.server";
 import { requireCompetitionOrganizer } from "~/showcase/organizer.server";
 import { publishSchema } from "~/voting/forms";
 import { windowStatus } from "~/voting/voting.server";
@@ -26,13 +27,10 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   const { user, competition: c } = await requireCompetitionOrganizer(request, context, params.competitionId);
   const submission = parseWithZod(await readForm(request), { schema: publishSchema });
   if (submission.status !== "success") return { result: submission.reply(), published: null };
-  try {
-    const p = await publishResults(c.id, user.id, submission.value.note ?? "");
-    return { result: submission.reply({ resetForm: true }), published: { version: p.version, sha256: p.sha256 } };
-  } catch (e) {
-    if (!(e instanceof PublishError)) throw e;
-    return { result: submission.reply(e.field === "note" ? { fieldErrors: { note: [e.message] } } : { formErrors: [e.message] }), published: null };
-  }
+  const note = submission.value.note ?? "";
+  const out = await attempt(() => publishResults(c.id, user.id, note));
+  if (!out.ok) return { result: formReply(submission, out.error), published: null };
+  return { result: submission.reply({ resetForm: true }), published: { version: out.value.version, sha256: out.value.sha256 } };
 }
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Results · ${data.competition.title} · Organize · Gatecrash` : "Results · Gatecrash" }];
@@ -49,8 +47,6 @@ export default function OrganizeResults({ loaderData, actionData }: Route.Compon
       <p className="kicker">Organize · {c.eventTitle}</p>
       <h1 className="mt-1 text-display font-extrabold">Results: {c.title}</h1>
       <nav aria-label="Competition tools" className="mt-4 flex flex-wrap gap-2">
-        <Link className="btn-quiet" to={`/organize/${c.id}/audience`}>Audience vote</Link>
-        <Link className="btn-quiet" to={`/organize/${c.id}/stage`}>Stage running order</Link>
         <Link className="btn-quiet" to={`/stage/${c.id}`}>Stage mode</Link>
         {correction && <Link className="btn-quiet" to={`${base}/results`}>Public results page</Link>}
       </nav>

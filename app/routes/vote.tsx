@@ -7,7 +7,8 @@ import { competitionBySlugs } from "~/showcase/showcase.server";
 import { showcaseEntries } from "~/showcase/showcase.server";
 import { ballotFromForm, voteFormSchema } from "~/voting/forms";
 import { resolveVoter } from "~/voting/page.server";
-import { castBallot, codeHolderCookie, currentBallot, VoteError, windowStatus, type Voter } from "~/voting/voting.server";
+import { attempt, formReply } from "~/errors/http.server";
+import { castBallot, codeHolderCookie, currentBallot, windowStatus, type Voter } from "~/voting/voting.server";
 import type { Route } from "./+types/vote";
 import { readForm } from "~/api/body.server";
 
@@ -42,18 +43,12 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   if (voter) who = voter;
   else if (submission.value.code) who = { kind: "new-code", code: submission.value.code };
   else return { result: submission.reply({ fieldErrors: { code: ["Type the vote code from your slip, or sign in with a verified account."] } }), saved: null };
-  try {
-    const out = await castBallot({ competitionId: c.id, voter: who, content: ballotFromForm(c.ballotMethod, submission.value) });
-    const headers = out.holderToken ? { "Set-Cookie": codeHolderCookie(c.id, out.holderToken, c.votingClosesAt ? new Date(c.votingClosesAt) : null) } : undefined;
-    return data({ result: submission.reply(), saved: { replaced: out.replaced, at: new Date().toISOString(), as: state.kind } }, { headers });
-  } catch (e) {
-    if (!(e instanceof VoteError)) throw e;
-    const codeProblem = e.code.startsWith("code_");
-    return {
-      result: submission.reply({ formErrors: codeProblem ? [] : [e.message], fieldErrors: codeProblem ? { code: [e.message] } : {} }),
-      saved: null,
-    };
-  }
+  const content = ballotFromForm(c.ballotMethod, submission.value);
+  const cast = await attempt(() => castBallot({ competitionId: c.id, voter: who, content }));
+  if (!cast.ok) return { result: formReply(submission, cast.error), saved: null };
+  const out = cast.value;
+  const headers = out.holderToken ? { "Set-Cookie": codeHolderCookie(c.id, out.holderToken, c.votingClosesAt ? new Date(c.votingClosesAt) : null) } : undefined;
+  return data({ result: submission.reply(), saved: { replaced: out.replaced, at: new Date().toISOString(), as: state.kind } }, { headers });
 }
 
 export const meta: Route.MetaFunction = ({ data: d }) => [

@@ -1,3 +1,7 @@
+import type { PublicStats } from "./shapes";
+
+/** Re-exported for app/stage (stage mode), which still imports it from here. */
+export type { PublicStats };
 /**
  * Reading the public figures of a check run (app/conformance writes them as loose JSON per step). Everything
  * here is defensive: a step that has not run, or wrote an older shape, gives null and the page says "not measured".
@@ -12,16 +16,6 @@ export interface FlashSummary {
   worstSecondFlashes: number | null;
   /** One sentence for the warning box. */
   statement: string;
-}
-
-export interface PublicStats {
-  flipFlops: number | null;
-  cells: number | null;
-  sourceLines: number | null;
-  tileShape: string | null;
-  tileSizeUm: { width: number; height: number } | null;
-  /** Placed-cell area over die area, 0..1. */
-  utilization: number | null;
 }
 
 type Json = Record<string, unknown>;

@@ -3,7 +3,8 @@ import { and, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { countingUploads } from "~/entries/counting.server";
 import { artifacts, checkRuns, competitions, crews, entries, events, uploadFiles } from "~/db/schema";
-import { flashSummary, publicStats, type FlashSummary, type PublicStats } from "./figures";
+import { flashSummary, publicStats, type FlashSummary } from "./figures";
+import type { PublicStats } from "./shapes";
 import { isId } from "~/security/ids";
 
 /**

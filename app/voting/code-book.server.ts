@@ -1,4 +1,5 @@
 import { and, asc, count, eq, inArray, isNull, sql } from "drizzle-orm";
+import { AppError } from "~/errors/app-error";
 import { db, type Db } from "~/db/client.server";
 import { competitions, voteCodes, voteCodeScopes } from "~/db/schema";
 import { generateCode } from "./codes";
@@ -9,9 +10,10 @@ import { generateCode } from "./codes";
  */
 export const MAX_CODES_PER_BATCH = 500;
 
-export class CodeBookError extends Error {
+/** A refused code sheet (an AppError about the request as a whole). */
+export class CodeBookError extends AppError {
   constructor(message: string) {
-    super(message);
+    super(409, "code_book_refused", message);
     this.name = "CodeBookError";
   }
 }

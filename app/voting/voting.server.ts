@@ -1,4 +1,5 @@
 import { and, count, eq } from "drizzle-orm";
+import { AppError } from "~/errors/app-error";
 import { db } from "~/db/client.server";
 import { ballotHistory, ballots, competitions } from "~/db/schema";
 import { env } from "~/env.server";
@@ -26,7 +27,8 @@ export const CAST_WINDOW_S = 60;
 export const CODE_ATTEMPT_LIMIT = 20;
 export const CODE_ATTEMPT_WINDOW_S = 60;
 
-export type BallotMethod = "points" | "borda" | "schulze";
+import type { BallotMethod } from "./shapes";
+export type { BallotMethod };
 export type BallotContent = PointsBallot | RankedBallot;
 export type WindowStatus = "not-open" | "open" | "closed";
 
@@ -42,15 +44,26 @@ export type VoteErrorCode =
   | "invalid_ballot"
   | "rate_limited";
 
-export class VoteError extends Error {
+/**
+ * A refused ballot, in the one failure shape (AppError): a ballot's problems are field errors of `ballot`, a code's
+ * of `code`; pages show a code problem beside the code field and anything else above the form.
+ */
+export class VoteError extends AppError {
+  declare readonly code: VoteErrorCode;
+
   constructor(
-    readonly code: VoteErrorCode,
-    readonly status: number,
+    code: VoteErrorCode,
+    status: number,
     message: string,
     readonly problems: BallotProblem[] = [],
     readonly retryAfterSeconds?: number,
   ) {
-    super(message);
+    const codeProblem = code.startsWith("code_");
+    super(status, code, message, {
+      fieldErrors: problems.length ? { ballot: problems.map((p) => p.message) } : codeProblem ? { code: [message] } : undefined,
+      formErrors: codeProblem ? [] : [message],
+      headers: retryAfterSeconds ? { "Retry-After": String(retryAfterSeconds) } : undefined,
+    });
     this.name = "VoteError";
   }
 }

@@ -136,7 +136,7 @@ describe("the check queue", () => {
     // the crew makes #1 the judged upload: it gets a check of its own, which the queue's one job runs
     const crew = await mod.db.db().select({ userId: mod.schema.crewMembers.userId }).from(mod.schema.crewMembers).innerJoin(mod.schema.entries, eq(mod.schema.entries.crewId, mod.schema.crewMembers.crewId)).where(eq(mod.schema.entries.id, e.id));
     const { chooseFinalUpload } = await import("~/entries/final-choice.server");
-    expect((await chooseFinalUpload(e.id, crew[0].userId, 1)).ok).toBe(true);
+    await expect(chooseFinalUpload(e.id, crew[0].userId, 1)).resolves.toMatchObject({ message: expect.stringContaining("Upload #1") });
     const [again] = await boss.fetch<{ checkRunId: string }>(mod.jobs.QUEUES.checkRun);
     expect(again).toBeDefined();
     expect(await mod.run.executeCheckRun(again.data.checkRunId, { simulate: false })).toBe("done");

@@ -20,7 +20,11 @@ afterAll(async () => {
 });
 
 async function put(competitionId: string, body: unknown, cookie?: string): Promise<{ status: number; json: any; setCookie: string | null }> {
-  const res = (await apiBallots.action((await routeArgs(request(`/api/ballots/${competitionId}`, { method: "PUT", json: body, cookie }), { competitionId })) as never)) as Response;
+  // A resource route's thrown Response is its answer, as React Router serves it.
+  const res = (await apiBallots.action((await routeArgs(request(`/api/ballots/${competitionId}`, { method: "PUT", json: body, cookie }), { competitionId })) as never).catch((thrown: unknown) => {
+    if (thrown instanceof Response) return thrown;
+    throw thrown;
+  })) as Response;
   return { status: res.status, json: await res.json(), setCookie: res.headers.get("set-cookie") };
 }
 
