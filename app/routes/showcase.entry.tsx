@@ -75,8 +75,8 @@ export default function ShowcaseEntryPage({ loaderData }: Route.ComponentProps) 
           <PlayerGate
             label="Crew's capture video"
             sources={capture}
-            flashVerdict={e.flash.verdict}
-            flashStatement={e.flash.statement}
+            flashVerdict={e.captureFlash.verdict}
+            flashStatement={e.captureFlash.statement}
             notReady="This crew uploaded no capture video."
           />
         </section>
