@@ -250,7 +250,8 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
       return {
         findings: cap.findings,
         figures: {
-          video: cap.video,
+          // the loop also under video (video.loop, as issue 13 names it)
+          video: cap.video ? { ...cap.video, loop: cap.loop } : null,
           audio: cap.audio,
           speed: cap.speed,
           // flash = {verdict, worstSecondFlashes, worstSecondAt, analysedSeconds, wholeDemo, span, statement, …}
