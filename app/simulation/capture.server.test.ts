@@ -163,7 +163,6 @@ describe("evaluating only the rising clock edge", () => {
     const full = await capture("correctBothEdges", VARIANTS.correct, false, "gc_pattern.v", DEMO_RULESET, true);
     expect(results.get("correct")!.speed!.edgeMode).toBe("rising-only");
     expect(full.speed!.edgeMode).toBe("both-edges");
-    expect(full.framesSha256).toBe(results.get("correct")!.framesSha256);
     expect(Buffer.concat(framesOf.get("correct")!).equals(Buffer.concat(framesOf.get("correctBothEdges")!))).toBe(true);
     expect(full.findings).toEqual(results.get("correct")!.findings);
   }, 120_000);

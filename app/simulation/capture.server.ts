@@ -1,4 +1,3 @@
-import { createHash } from "node:crypto";
 import { readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import type { Finding } from "~/rules/findings";
@@ -92,8 +91,6 @@ export interface ReferenceCapture {
   flashFigures: FlashFigures | null;
   loop: LoopReport | null;
   audioChecks: AudioChecks | null;
-  /** SHA-256 of the demo's frames as captured (rgb24, one after another), to compare two captures */
-  framesSha256: string | null;
   /** 32×24 luma per frame, for comparing an uploaded capture (compare-video.server.ts) */
   referenceLuma: LumaSequence | null;
 }
@@ -122,7 +119,6 @@ function emptyCapture(findings: Finding[]): ReferenceCapture {
     flashFigures: null,
     loop: null,
     audioChecks: null,
-    framesSha256: null,
     referenceLuma: null,
   };
 }
@@ -170,7 +166,6 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
   const flashOn = ruleset.flashCheck.enabled;
   let firstPng: Buffer | null = null;
   const digest = new FrameDigest(mode.h.active, mode.v.active, flashOn ? nominalFps : null, ruleset.flashCheck.viewing);
-  const sha = createHash("sha256");
   const outDir = join(req.workDir, "build", "out");
   let encoder: LiveEncoder | null = null;
   const rate = `${Math.round(ruleset.clock.frequencyHz)}/${mode.h.total * ruleset.clock.clocksPerPixel * mode.v.total}`;
@@ -189,7 +184,6 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
         return;
       }
       digest.push(img, r.index);
-      sha.update(r.data);
       req.onFrame?.(img, r.index);
       if (r.index === 0) {
         firstPng = encodePng(img); // while the run goes on; written out after it
@@ -244,7 +238,6 @@ export async function runReferenceCapture(req: ReferenceCaptureRequest): Promise
   const loop = loopReport(summary, fps, frameCap, ruleset.simulation.maxRunSeconds);
   capture.loop = loop;
   if (digest.count > 0) {
-    capture.framesSha256 = sha.digest("hex");
     findings.push({
       step: "simulation",
       rule: "simulation.loop",
