@@ -49,6 +49,8 @@ export interface LiveEncoder {
 
 // no look-ahead in either encoder: frames leave ffmpeg as they come (less memory: measured 65 MB instead of 95 MB for
 // x264 and 100 MB instead of 130 MB for VP9 on 640×480, and a fifth less CPU for x264; npm run bench -- simulation)
+/** Frames queued for ffmpeg before the caller is held back (4 × 921 600 bytes at 640×480). */
+const ENCODE_BACKLOG = 4;
 const VIDEO_WEBM = ["-c:v", "libvpx-vp9", "-b:v", "0", "-crf", "30", "-deadline", "realtime", "-cpu-used", "8", "-row-mt", "1", "-lag-in-frames", "0", "-pix_fmt", "yuv420p"];
 const VIDEO_MP4 = ["-c:v", "libx264", "-preset", "veryfast", "-tune", "zerolatency", "-crf", "20", "-pix_fmt", "yuv420p"];
 
@@ -99,7 +101,9 @@ export function startLiveEncode(req: LiveEncodeRequest): LiveEncoder {
       if (broken) return;
       frames++;
       const pipe = input();
-      if (pipe.write(frame)) return;
+      // up to ENCODE_BACKLOG frames may wait for ffmpeg, so the harness and the digest go on while it encodes;
+      // beyond that the caller waits (and with it the harness): memory stays bounded
+      if (pipe.write(frame) || pipe.writableLength < ENCODE_BACKLOG * frame.length) return;
       await new Promise<void>((resolve) => {
         const done = () => { pipe.off("drain", done); pipe.off("error", done); pipe.off("close", done); resolve(); };
         pipe.on("drain", done);
