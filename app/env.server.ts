@@ -48,8 +48,11 @@ const envSchema = z.object({
     .default("")
     .transform((s) => s.split(",").map((p) => p.trim()).filter(Boolean))
     .pipe(z.array(z.union([z.ipv4(), z.ipv6(), z.cidrv4(), z.cidrv6(), z.literal("loopback")], { error: 'an IP address, a CIDR range or "loopback"' }))),
-  /** How long a check-run job may stay active before pg-boss hands it to another worker (a killed worker's job). */
-  CHECK_RUN_EXPIRE_SECONDS: z.coerce.number().int().min(1).default(15 * 60),
+  /**
+   * How long a check-run job may stay active before pg-boss hands it to another worker (a killed worker's job). 30 min: a
+   * whole-demo capture of up to 600 s of picture (simulation.maxRunSeconds) at a few times real time, plus the build.
+   */
+  CHECK_RUN_EXPIRE_SECONDS: z.coerce.number().int().min(1).default(30 * 60),
   /** How often the supervising worker expires stalled jobs (pg-boss maintenance; its default is 120 s). */
   QUEUE_MAINTENANCE_SECONDS: z.coerce.number().int().min(1).default(120),
   /** Check runs one worker process runs at a time; default: one core left for the rest of the machine. */

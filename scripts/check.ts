@@ -1,7 +1,8 @@
 /**
  * `npm run check -- [--ruleset FILE] [--bundle FILE] [--layout FILE] [--video FILE] [--simulate [--frames N]] [--json]`
  * Runs Gatecrash's conformance checks locally with the same pipeline as the worker (default ruleset: the demo
- * compo's). Exit 0 when nothing fails, 1 when a rule fails (or a step could not finish), 2 when the input cannot be read.
+ * compo's). `--simulate` captures the whole demo: until the design's state repeats at a frame start (it loops) or the
+ * ruleset's simulation.maxRunSeconds; `--frames N` caps it at N frames. Exit 0 when nothing fails, 1 when a rule fails (or a step could not finish), 2 when the input cannot be read.
  */
 import { existsSync, mkdtempSync, readFileSync, rmSync, chmodSync } from "node:fs";
 import { tmpdir } from "node:os";
@@ -52,8 +53,13 @@ export function toJson(result: PipelineResult) {
     video: video ? { ...video, framesRendered: video.framesRendered } : null,
     audio: f.audio ?? null,
     speed: f.speed ?? null,
-    flash: f.flash ? { verdict: f.flash.verdict, worstSecondFlashes: f.flash.worstSecondFlashes } : null,
+    flash: f.flash
+      ? { verdict: f.flash.verdict, worstSecondFlashes: f.flash.worstSecondFlashes, worstSecondAt: f.flash.worstSecondAt, analysedSeconds: f.flash.analysedSeconds, wholeDemo: f.flash.wholeDemo, statement: f.flash.statement }
+      : null,
+    // capture.loop = {detected, periodFrames, periodSeconds, firstLoopFrame, …}
+    loop: f.loop ?? null,
     capture: f.capture ?? null,
+    captureFlash: f.captureFlash ?? null,
   };
 }
 
@@ -67,6 +73,9 @@ function printReport(result: PipelineResult): void {
     if (x.verdict !== "pass" && x.advice) console.log(`      → ${x.advice}`);
   }
   for (const s of result.skipped) console.log(`SKIP  ${s.step}: ${s.reason}`);
+  const f = result.figures as Record<string, { statement?: string } | null | undefined>;
+  if (f.loop?.statement) console.log(`\nWhole demo: ${f.loop.statement}.`);
+  if (f.flash?.statement) console.log(f.flash.statement);
   console.log(`\nVerdict: ${MARK[result.verdict]}. A passing check is not the foundry's or shuttle's own signoff (DRC/LVS).`);
 }
 
@@ -99,7 +108,7 @@ export async function main(argv: string[]): Promise<number> {
     const videoPath = existing(args.video, "video");
     if (!bundlePath && !layoutPath && !videoPath) throw new InputError("nothing to check: give --bundle, --layout and/or --video");
     const frames = args.frames === undefined ? undefined : Number(args.frames);
-    if (frames !== undefined && (!Number.isInteger(frames) || frames < 1 || frames > 600)) throw new InputError("--frames must be a whole number from 1 to 600");
+    if (frames !== undefined && (!Number.isInteger(frames) || frames < 1 || frames > 36_000)) throw new InputError("--frames must be a whole number from 1 to 36000");
     const result = await runPipeline({ ruleset, workDir, bundlePath, layoutPath, videoPath, simulate: args.simulate, frames, encode: false, pictures: false });
     const unreadable = result.findings.find((f) => f.rule === "layout.read" || f.rule === "intake.not-an-archive" || f.rule === "intake.corrupt" || f.rule === "capture.video.unreadable");
     if (args.json) console.log(JSON.stringify(toJson(result), null, 2));

@@ -1,4 +1,4 @@
-import { useId, useState } from "react";
+import { useId, useRef, useState } from "react";
 
 /**
  * Every player sits behind this gate: the photosensitivity warning with the entry's flash-check result.
@@ -18,6 +18,7 @@ export function PlayerGate({
   notReady = "Reference capture not ready yet: Gatecrash renders it when the check run finishes.",
   tone = "light",
   autoPlay = false,
+  loop = null,
 }: {
   label: string;
   sources: PlayerSource[];
@@ -27,8 +28,13 @@ export function PlayerGate({
   notReady?: string;
   tone?: "light" | "dark";
   autoPlay?: boolean;
+  /** where the demo loops, to mark on the seek bar: seconds into the video where the loop starts, and its length */
+  loop?: { startSeconds: number; periodSeconds: number } | null;
 }) {
   const [accepted, setAccepted] = useState(false);
+  const [time, setTime] = useState(0);
+  const [duration, setDuration] = useState(0);
+  const videoRef = useRef<HTMLVideoElement>(null);
   const headingId = useId();
   const flagged = flashVerdict !== "pass";
   if (sources.length === 0) {
@@ -65,12 +71,36 @@ export function PlayerGate({
   }
   return (
     <figure>
-      <video controls autoPlay={autoPlay} playsInline preload="metadata" poster={poster ?? undefined} className="w-full rounded-lg bg-black" aria-label={label} data-testid="player-video">
+      <video
+        ref={videoRef}
+        controls
+        autoPlay={autoPlay}
+        playsInline
+        preload="metadata"
+        poster={poster ?? undefined}
+        className="w-full rounded-lg bg-black"
+        aria-label={label}
+        data-testid="player-video"
+        onLoadedMetadata={(e) => setDuration(e.currentTarget.duration)}
+        onTimeUpdate={(e) => setTime(e.currentTarget.currentTime)}
+      >
         {sources.map((s) => (
           <source key={s.src} src={s.src} type={s.type} />
         ))}
         Your browser cannot play this video.
       </video>
+      {loop && (
+        <LoopSeekBar
+          time={time}
+          duration={duration > 0 && Number.isFinite(duration) ? duration : loop.startSeconds + loop.periodSeconds}
+          loop={loop}
+          tone={tone}
+          onSeek={(t) => {
+            if (videoRef.current) videoRef.current.currentTime = t;
+            setTime(t);
+          }}
+        />
+      )}
       <figcaption className={`mt-1 text-xs ${tone === "dark" ? "text-white/70" : "text-mute"}`}>
         {label} · {flashStatement}
       </figcaption>
@@ -87,5 +117,47 @@ export function AudioCaution({ className = "" }: { className?: string }) {
       <strong>Audio caution:</strong> the sound comes from a 1-bit PWM pin, a full-scale square wave with a DC offset. Listen through a
       low-pass filter and a coupling capacitor, and start at low volume.
     </p>
+  );
+}
+
+/** A seek bar with the demo's loop marked: the intro before the mark, one whole loop after it. */
+export function LoopSeekBar({
+  time,
+  duration,
+  loop,
+  tone = "light",
+  onSeek,
+}: {
+  time: number;
+  duration: number;
+  loop: { startSeconds: number; periodSeconds: number };
+  tone?: "light" | "dark";
+  onSeek: (seconds: number) => void;
+}) {
+  const pct = duration > 0 ? Math.min(100, (loop.startSeconds / duration) * 100) : 0;
+  const muted = tone === "dark" ? "text-white/70" : "text-mute";
+  return (
+    <div className="mt-2" data-testid="loop-seek-bar">
+      <div className="relative">
+        <input
+          type="range"
+          min={0}
+          max={duration}
+          step={0.01}
+          value={Math.min(time, duration)}
+          onChange={(e) => onSeek(Number(e.currentTarget.value))}
+          className="w-full accent-signal"
+          aria-label={`Seek; the loop starts at ${loop.startSeconds.toFixed(1)} s and lasts ${loop.periodSeconds.toFixed(1)} s`}
+        />
+        <span aria-hidden="true" className="pointer-events-none absolute top-0 h-full w-0.5 bg-warn" style={{ left: `${pct}%` }} data-testid="loop-mark" />
+      </div>
+      <p className={`text-xs ${muted}`}>
+        {loop.startSeconds > 0.05 ? `Intro 0–${loop.startSeconds.toFixed(1)} s, then the loop` : "The whole loop"} ({loop.periodSeconds.toFixed(1)} s) to the end; it
+        repeats from the mark.
+        <button type="button" className="ml-2 underline" onClick={() => onSeek(loop.startSeconds)}>
+          Go to the loop point
+        </button>
+      </p>
+    </div>
   );
 }

@@ -11,7 +11,7 @@ import { precheckPassed, precheckSources } from "~/sources/precheck.server";
 import { runSourceChecks } from "~/sources/yosys.server";
 import { compareVideoFile } from "~/simulation/compare-video.server";
 import { runReferenceCapture } from "~/simulation/capture.server";
-import { flashFindings } from "~/simulation/flash";
+import { flashFigures, flashFindings } from "~/simulation/flash";
 import { analyzeVideoFile } from "~/simulation/flash-video.server";
 import { worstVerdict, type CheckStep, type Finding, type Verdict } from "~/rules/findings";
 import type { Ruleset } from "~/rules/ruleset";
@@ -250,10 +250,14 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
       return {
         findings: cap.findings,
         figures: {
-          video: cap.video,
+          // the loop also under video (video.loop, as issue 13 names it)
+          video: cap.video ? { ...cap.video, loop: cap.loop } : null,
           audio: cap.audio,
           speed: cap.speed,
-          flash: cap.flash ? { verdict: cap.flash.passes ? "pass" : ruleset.flashCheck.action === "block" ? "fail" : "warn", worstSecondFlashes: Math.max(cap.flash.general.worstFlashes, cap.flash.red.worstFlashes), report: cap.flash } : null,
+          // flash = {verdict, worstSecondFlashes, worstSecondAt, analysedSeconds, wholeDemo, span, statement, …}
+          flash: cap.flash && cap.flashFigures ? { ...cap.flashFigures, report: cap.flash } : null,
+          loop: cap.loop,
+          audioChecks: cap.audioChecks,
         },
         artifacts: [
           ...artifact("first-frame", cap.files.firstFramePng),
@@ -276,9 +280,10 @@ export async function runPipeline(input: PipelineInput): Promise<PipelineResult>
     const videoPath = input.videoPath;
     const reference = referenceLuma as Referenced;
     await step("capture", async () => {
-      const flash = await analyzeVideoFile(videoPath, { workDir: join(workDir, "upload-video") });
-      const found: Finding[] = flashFindings(flash, ruleset, "uploaded capture video", 160, 120).map((f) => ({ ...f, step: "capture" as const, rule: f.rule.replace(/^flash\./, "capture.flash.") }));
-      const figures: Record<string, unknown> = { captureFlash: { verdict: flash.passes ? "pass" : "warn", worstSecondFlashes: Math.max(flash.general.worstFlashes, flash.red.worstFlashes) } };
+      // the whole video, streamed from ffmpeg; its own verdict gates its own player
+      const { report: flash, span } = await analyzeVideoFile(videoPath, { workDir: join(workDir, "upload-video"), viewing: ruleset.flashCheck.viewing });
+      const found: Finding[] = flashFindings(flash, ruleset, "uploaded capture video", 160, 120, span).map((f) => ({ ...f, step: "capture" as const, rule: f.rule.replace(/^flash\./, "capture.flash.") }));
+      const figures: Record<string, unknown> = { captureFlash: flashFigures(flash, ruleset, span, "warn") };
       if (reference) {
         const cmp = await compareVideoFile(videoPath, reference, join(workDir, "compare"));
         figures.capture = cmp;

@@ -304,12 +304,24 @@ export default function CompetitionRules({ loaderData }: Route.ComponentProps) {
           <div>
             <dt className="text-mute">Simulation</dt>
             <dd className="font-semibold">
-              {r.simulation.frames} frame{r.simulation.frames === 1 ? "" : "s"} from reset
+              {r.simulation.frames === null
+                ? `the whole demo from reset, until it loops (at most ${r.simulation.maxRunSeconds} s)`
+                : `${r.simulation.frames} frame${r.simulation.frames === 1 ? "" : "s"} from reset`}
             </dd>
           </div>
           <div>
             <dt className="text-mute">Flash check</dt>
-            <dd className="font-semibold">{r.flashCheck.enabled ? (r.flashCheck.action === "block" ? "on; flashing entries fail" : "on; flashing entries carry a warning") : "off"}</dd>
+            <dd className="font-semibold">
+              {r.flashCheck.enabled ? (r.flashCheck.action === "block" ? "on; flashing entries fail" : "on; flashing entries carry a warning") : "off"}
+              {r.flashCheck.enabled &&
+                (r.flashCheck.viewing === "hall"
+                  ? " · watched in a hall: WCAG's area exemption does not apply, a flash anywhere on the screen counts"
+                  : " · watched at a desk: WCAG's 10° field area rule applies")}
+            </dd>
+          </div>
+          <div>
+            <dt className="text-mute">Audio</dt>
+            <dd className="font-semibold">the PWM pin through a first-order RC low-pass at {r.audio.lowPassHz} Hz</dd>
           </div>
           <div>
             <dt className="text-mute">Layout against source</dt>

@@ -62,7 +62,15 @@ export default function ShowcaseEntryPage({ loaderData }: Route.ComponentProps) 
             Reference capture
           </h2>
           <p className="mb-3 text-sm text-mute">Rendered by Gatecrash from the design itself, the same way for every entry.</p>
-          <PlayerGate label="Reference capture" sources={reference} poster={e.media.firstFrame} flashVerdict={e.flash.verdict} flashStatement={e.flash.statement} />
+          <PlayerGate
+            label="Reference capture"
+            sources={reference}
+            poster={e.media.firstFrame}
+            flashVerdict={e.flash.verdict}
+            flashStatement={e.flash.statement}
+            loop={e.loop?.detected && e.loop.periodSeconds !== null ? { startSeconds: e.loop.loopStartSeconds ?? 0, periodSeconds: e.loop.periodSeconds } : null}
+          />
+          {e.loop?.statement && <p className="mt-2 text-sm text-mute">Whole demo: {e.loop.statement}.</p>}
           {e.media.referenceAudio && (
             <div className="mt-4">
               <AudioCaution className="mb-2 text-sm" />
@@ -75,8 +83,8 @@ export default function ShowcaseEntryPage({ loaderData }: Route.ComponentProps) 
           <PlayerGate
             label="Crew's capture video"
             sources={capture}
-            flashVerdict={e.flash.verdict}
-            flashStatement={e.flash.statement}
+            flashVerdict={e.captureFlash.verdict}
+            flashStatement={e.captureFlash.statement}
             notReady="This crew uploaded no capture video."
           />
         </section>

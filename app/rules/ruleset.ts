@@ -81,8 +81,13 @@ const uploadLimitsSchema = z.object({
 });
 
 const simulationSchema = z.object({
-  // one second at 60 Hz: WCAG 2.3.1 counts flashes in any one-second window, which a shorter capture cannot show
-  frames: z.number().int().min(1).max(600).default(60),
+  /**
+   * null (the default): the whole demo — the capture runs until the design's complete state repeats at a frame
+   * start (it loops) or until maxRunSeconds of picture. A number caps the capture at that many frames.
+   */
+  frames: z.number().int().min(1).max(36_000).nullable().default(null),
+  /** Seconds of picture the whole-demo capture runs at most when the design does not loop sooner. */
+  maxRunSeconds: z.number().int().min(1).max(600).default(180),
   resetCycles: z.number().int().min(1).max(1_000_000).default(20),
   compileSeconds: z.number().int().min(5).max(600).default(120),
   runSeconds: z.number().int().min(5).max(3600).default(120),
@@ -160,8 +165,19 @@ const rulesetObject = z.object({
   uploadLimits: uploadLimitsSchema.default(uploadLimitsSchema.parse({})),
   simulation: simulationSchema.default(simulationSchema.parse({})),
   flashCheck: z
-    .object({ enabled: z.boolean().default(true), action: z.enum(["warn", "block"]).default("warn") })
-    .default({ enabled: true, action: "warn" }),
+    .object({
+      enabled: z.boolean().default(true),
+      action: z.enum(["warn", "block"]).default("warn"),
+      /**
+       * How the entries are watched. "desk": WCAG's area exemption applies (a flash smaller than 25 % of a 10° field,
+       * estimated as 341 × 256 px at 1024 × 768, does not count). "hall": a projector in a hall, where a 10° field is a
+       * much smaller share of the screen, so the exemption does not apply and a flash anywhere on the screen counts.
+       */
+      viewing: z.enum(["desk", "hall"]).default("hall"),
+    })
+    .default({ enabled: true, action: "warn", viewing: "hall" }),
+  /** The audio pin is heard through a first-order RC low-pass at this cut-off (4 kHz: common practice, no source). */
+  audio: z.object({ lowPassHz: z.number().min(100).max(20_000).default(4000) }).default({ lowPassHz: 4000 }),
 });
 
 /** The stored ruleset; older versions are upgraded on the way in. */

@@ -1,4 +1,5 @@
 import { spawn } from "node:child_process";
+import type { Readable, Writable } from "node:stream";
 import { chownSync, existsSync, lstatSync, readdirSync } from "node:fs";
 import { join } from "node:path";
 
@@ -44,6 +45,13 @@ export interface SandboxRequest {
    * certificates for the repository fetch; an `optional` one is skipped when the host has no such folder.
    */
   readOnly?: { host: string; inside: string; optional?: boolean }[];
+  /**
+   * Streams instead of files, for tools that hand data over as they make it: `stdin` gives the tool a pipe to read
+   * (e.g. raw frames into ffmpeg), `fd3` an extra pipe the tool writes on its file descriptor 3 (e.g. the harness's
+   * frames). `onStreams` receives both ends as soon as the process exists; the caller must consume `fd3`.
+   */
+  pipes?: { stdin?: boolean; fd3?: boolean };
+  onStreams?: (io: { stdin: Writable | null; fd3: Readable | null }) => void;
 }
 
 export interface SandboxResult {
@@ -114,19 +122,24 @@ export function runSandboxed(req: SandboxRequest): Promise<SandboxResult> {
   const [bin, ...args] = sandboxArgv(req);
   const started = Date.now();
   return new Promise((resolve, reject) => {
-    const child = spawn(bin, args, { stdio: ["ignore", "pipe", "pipe"], detached: true, env: { PATH: "/usr/bin:/bin" } });
+    const child = spawn(bin, args, {
+      stdio: [req.pipes?.stdin ? "pipe" : "ignore", "pipe", "pipe", ...(req.pipes?.fd3 ? (["pipe"] as const) : [])],
+      detached: true,
+      env: { PATH: "/usr/bin:/bin" },
+    });
+    if (req.onStreams) req.onStreams({ stdin: child.stdin ?? null, fd3: req.pipes?.fd3 ? (child.stdio[3] as Readable) : null });
     const out: Buffer[] = [];
     const err: Buffer[] = [];
     let outLen = 0;
     let errLen = 0;
     let truncated = false;
     let timedOut = false;
-    child.stdout.on("data", (b: Buffer) => {
+    child.stdout!.on("data", (b: Buffer) => {
       if (outLen < maxOut) out.push(b.subarray(0, maxOut - outLen));
       else truncated = true;
       outLen += b.length;
     });
-    child.stderr.on("data", (b: Buffer) => {
+    child.stderr!.on("data", (b: Buffer) => {
       if (errLen < maxOut) err.push(b.subarray(0, maxOut - errLen));
       else truncated = true;
       errLen += b.length;

@@ -30,9 +30,48 @@ function str(v: unknown): string | null {
   return typeof v === "string" && v.length > 0 ? v : null;
 }
 
+/** The flash summary of the reference capture (figures.flash). */
 export function flashSummary(figures: Record<string, unknown> | null | undefined): FlashSummary {
-  const flash = obj(figures?.flash);
+  return summarise(obj(figures?.flash));
+}
+
+/** The flash summary of the crew's own capture video (figures.captureFlash): its player is gated by this one. */
+export function captureFlashSummary(figures: Record<string, unknown> | null | undefined): FlashSummary {
+  return summarise(obj(figures?.captureFlash));
+}
+
+/** Where the demo loops, as the reference capture found it (figures.loop), for the player's loop mark. */
+export interface LoopSummary {
+  detected: boolean;
+  periodSeconds: number | null;
+  /** seconds into the preview where the loop starts (after the intro) */
+  loopStartSeconds: number | null;
+  capturedSeconds: number | null;
+  statement: string | null;
+}
+
+export function loopSummary(figures: Record<string, unknown> | null | undefined): LoopSummary | null {
+  const loop = obj(figures?.loop);
+  if (!loop) return null;
+  const captured = num(loop.capturedSeconds);
+  const period = num(loop.periodSeconds);
+  const detected = loop.detected === true && period !== null;
+  const first = num(loop.firstLoopFrame);
+  const fps = captured !== null && num(loop.framesCaptured) ? num(loop.framesCaptured)! / captured : null;
+  return {
+    detected,
+    periodSeconds: detected ? period : null,
+    loopStartSeconds: detected && first !== null && fps ? first / fps : null,
+    capturedSeconds: captured,
+    statement: str(loop.statement),
+  };
+}
+
+function summarise(flash: Json | null): FlashSummary {
   if (!flash) return { verdict: null, worstSecondFlashes: null, statement: "Flash check: not measured yet." };
+  // figures written since whole-demo captures carry their own sentence, naming the span analysed
+  const own = str(flash.statement);
+  if (flash.verdict === "unmeasured") return { verdict: null, worstSecondFlashes: null, statement: own ?? "Flash check: not measured." };
   const raw = flash.verdict;
   let verdict: FlashVerdict | null = raw === "pass" || raw === "warn" || raw === "fail" ? raw : null;
   if (verdict === null && typeof flash.passes === "boolean") verdict = flash.passes ? "pass" : "warn";
@@ -44,10 +83,12 @@ export function flashSummary(figures: Record<string, unknown> | null | undefined
       return g === null && r === null ? null : Math.max(g ?? 0, r ?? 0);
     })();
   if (verdict === null) return { verdict: null, worstSecondFlashes: worst, statement: "Flash check: not measured yet." };
+  if (own) return { verdict, worstSecondFlashes: worst, statement: own };
+  // older figures measured one second or so and did not say how much: the statement must not claim more
   const perSecond = worst === null ? "" : ` (worst second: ${worst} flash${worst === 1 ? "" : "es"})`;
   const statement =
     verdict === "pass"
-      ? `Flash check: passed — within the WCAG 2.2 general and red flash thresholds${perSecond}.`
+      ? `Flash check: passed in the part analysed (its length was not recorded) — within the WCAG 2.2 general and red flash thresholds${perSecond}.`
       : `Flash check: FLAGGED — this entry flashes more than three times a second${perSecond}.`;
   return { verdict, worstSecondFlashes: worst, statement };
 }

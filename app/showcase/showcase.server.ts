@@ -3,7 +3,7 @@ import { and, desc, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { countingUploads } from "~/entries/counting.server";
 import { artifacts, checkRuns, competitions, crews, entries, events, uploadFiles } from "~/db/schema";
-import { flashSummary, publicStats, type FlashSummary } from "./figures";
+import { captureFlashSummary, flashSummary, loopSummary, publicStats, type FlashSummary, type LoopSummary } from "./figures";
 import type { PublicStats } from "./shapes";
 import { isId } from "~/security/ids";
 
@@ -55,6 +55,10 @@ export interface ShowcaseEntry {
   position: number;
   check: { state: "none" | "queued" | "running" | "done" | "error" | "superseded"; verdict: "pass" | "warn" | "fail" | null };
   flash: FlashSummary;
+  /** the crew's own capture video has its own verdict, which gates its own player */
+  captureFlash: FlashSummary;
+  /** where the reference capture loops, for the player's mark */
+  loop: LoopSummary | null;
   stats: PublicStats;
   media: ShowcaseMedia;
   /** True once the reference capture video exists. */
@@ -198,6 +202,8 @@ function describe(c: PublicCompetition, e: EligibleEntry, position: number, chec
     position,
     check: { state: check?.state ?? "none", verdict: check?.verdict ?? null },
     flash: flashSummary(figures),
+    captureFlash: captureFlashSummary(figures),
+    loop: loopSummary(figures),
     stats: publicStats(figures),
     media: {
       still: still ? mediaPath(c, e.id, "still") : null,

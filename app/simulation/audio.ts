@@ -1,3 +1,4 @@
+import type { Finding } from "~/rules/findings";
 /** Audio from the 1-bit pin: WAV container, level figures, dominant frequency, a waveform picture. */
 export interface AudioFigures {
   /** RMS of the signal with its DC removed, full scale = 1 */
@@ -128,4 +129,82 @@ export function waveformSvg(samples: Int16Array, sampleRate: number, width = 800
 <path d="${samples.length ? parts.join("") : ""}" stroke="#7fd1b9" stroke-width="1" fill="none"/>
 </svg>
 `;
+}
+
+/** What the harness counted of the pin itself (summary.json), beside the filtered samples. */
+export interface AudioPinCounts {
+  risingEdges: number;
+  maxRisingEdgesPerFrame: number;
+  lowPassHz: number;
+}
+
+/** Upper end of the audible band (common practice, no source: the usual 20 Hz – 20 kHz of human hearing). */
+export const AUDIBLE_LIMIT_HZ = 20_000;
+/** RMS below this (full scale 1, DC removed) is heard as no signal: −60 dBFS, our own choice. */
+export const DC_ONLY_RMS = 1e-3;
+/** A sample within this many steps of either rail counts as clipped; more than CLIP_SHARE of them is flagged. */
+const CLIP_STEPS = 16;
+export const CLIP_SHARE = 0.01;
+/** Edges less than this many times the strongest tone's frequency: the pin plays the tone itself (our own rule). */
+const SQUARE_TONE_RATIO = 4;
+
+export interface AudioChecks {
+  /** the fastest the pin's rising edges came in any one frame, per second: a PWM carrier's frequency */
+  carrierHz: number | null;
+  clippedShare: number;
+}
+
+export function clippedShare(samples: Int16Array): number {
+  if (samples.length === 0) return 0;
+  let n = 0;
+  for (const s of samples) if (s >= 32767 - CLIP_STEPS || s <= -32768 + CLIP_STEPS) n++;
+  return n / samples.length;
+}
+
+/**
+ * Findings for the audio pin: silence (it never toggles), DC only (it toggles, but the filtered signal does not move),
+ * a PWM carrier inside the audible band, and clipping (the filtered signal at a rail, i.e. the duty cycle at 0 % or
+ * 100 % for longer than the filter's time constant). `fps` turns the per-frame edge count into a frequency.
+ */
+export function audioFindings(figures: AudioFigures, pin: AudioPinCounts, samples: Int16Array, fps: number, hasAudioPin: boolean): { findings: Finding[]; checks: AudioChecks } {
+  const findings: Finding[] = [];
+  const carrierHz = pin.maxRisingEdgesPerFrame > 0 ? pin.maxRisingEdgesPerFrame * fps : null;
+  const clipped = clippedShare(samples);
+  const filter = `the pin through a first-order RC low-pass at ${pin.lowPassHz} Hz`;
+  if (!hasAudioPin) return { findings, checks: { carrierHz, clippedShare: clipped } };
+  const silent = pin.risingEdges === 0;
+  findings.push({
+    step: "simulation", rule: "audio.silence", verdict: silent ? "warn" : "pass",
+    title: "The audio pin makes sound", measured: `${pin.risingEdges} rising edges`, limit: "at least one",
+    evidence: silent ? "the audio pin never went high after reset in the captured span" : `${pin.risingEdges} rising edges in the captured span`,
+    advice: silent ? "drive the audio pin (1-bit PWM or a square-wave tone), or leave this warning if the entry is silent on purpose" : undefined,
+  });
+  if (silent) return { findings, checks: { carrierHz, clippedShare: clipped } };
+  const dcOnly = figures.rms < DC_ONLY_RMS;
+  findings.push({
+    step: "simulation", rule: "audio.dc-only", verdict: dcOnly ? "warn" : "pass",
+    title: "The filtered audio carries a signal, not only a DC level", measured: `RMS ${figures.rms.toFixed(4)} of full scale`, limit: `≥ ${DC_ONLY_RMS} (−60 dBFS)`,
+    evidence: `${filter}; DC level ${figures.dcOffset.toFixed(3)}`,
+    advice: dcOnly ? "the pin toggles, but at a steady duty cycle: vary the duty cycle to make a tone" : undefined,
+  });
+  // a pin whose edges come about as often as the tone it makes is a square-wave tone, not a PWM DAC with a carrier
+  const squareTone = carrierHz !== null && figures.dominantHz !== null && carrierHz < SQUARE_TONE_RATIO * figures.dominantHz;
+  const audible = carrierHz !== null && carrierHz < AUDIBLE_LIMIT_HZ && !squareTone;
+  findings.push({
+    step: "simulation", rule: "audio.carrier", verdict: audible ? "warn" : "pass",
+    title: "The PWM carrier is above the audible band", measured: carrierHz === null ? null : `${Math.round(carrierHz)} Hz`, limit: `≥ ${AUDIBLE_LIMIT_HZ} Hz (common practice, no source)`,
+    evidence: squareTone
+      ? `the pin's edges come at the tone's own rate (strongest tone ${Math.round(figures.dominantHz!)} Hz): a square-wave tone, no PWM carrier`
+      : "the most rising edges of the pin in one frame, times the frame rate",
+    advice: audible ? "a PWM DAC needs a carrier above 20 kHz (an 8-bit counter at 25 MHz gives about 98 kHz); a plain square-wave tone is fine if it is meant to be heard as it is" : undefined,
+  });
+  // a square-wave tone sits at the rails by nature: its flat tops are the waveform, not a clipped one
+  const clipping = clipped > CLIP_SHARE && !squareTone;
+  findings.push({
+    step: "simulation", rule: "audio.clipping", verdict: clipping ? "warn" : "pass",
+    title: "The filtered audio does not clip", measured: `${(clipped * 100).toFixed(1)} % of samples at a rail`, limit: `≤ ${CLIP_SHARE * 100} % (our own limit)`,
+    evidence: squareTone ? `${filter}; a square-wave tone, whose flat tops at the rails are not clipping` : filter,
+    advice: clipping ? "keep the duty cycle away from 0 % and 100 %: the filtered level sits at a rail there" : undefined,
+  });
+  return { findings, checks: { carrierHz, clippedShare: clipped } };
 }

@@ -1,5 +1,6 @@
 import { copyFileSync, existsSync, lstatSync, mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { dirname, isAbsolute, join, normalize } from "node:path";
+import type { Readable } from "node:stream";
 import { pinsByRole, type Ruleset } from "~/rules/ruleset";
 import { videoMode } from "~/rules/video-modes";
 import { runSandboxed, type SandboxResult } from "~/sandbox/sandbox.server";
@@ -37,14 +38,23 @@ export interface SimulationRequest {
   useModelCache?: boolean;
   /** the model cache's folder (default: MODEL_CACHE_DIR, shared by every build on this machine) */
   modelCacheDir?: string;
-  /** Called when the run starts, with the frames file it appends to and a promise that settles when it ends. */
-  watchFrames?: (framesPath: string, runEnded: Promise<unknown>) => Promise<unknown>;
+  /**
+   * Frames after the loop point the harness still sends (marked as tail), so a flash window that wraps around the
+   * loop point is seen; default 0.
+   */
+  tailFrames?: number;
+  /**
+   * Called when the run starts with the harness's frame stream (frame-stream.ts), which it must read to the end;
+   * the harness waits while it is not read. Without it the frames are read and dropped.
+   */
+  onFrameStream?: (stream: Readable) => Promise<unknown>;
 }
 
 export interface SimulationRun {
   summary: HarnessSummary;
-  framesPath: string;
   pcmPath: string;
+  /** the most frames the run was allowed (the set frames, or the whole-demo limit) */
+  maxFrames: number;
   compileMs: number;
   runMs: number;
   /** whether the falling clock edge was evaluated too (edge-mode.ts) */
@@ -90,7 +100,8 @@ function tail(text: string, max = 4000): string {
 export function verilatorArgs(ruleset: Ruleset, sources: string[]): string[] {
   // Flags from EDA.md, without --build: make runs separately so prebuilt runtime objects can be dropped in.
   return [
-    "--cc", "--exe", "-O3", "--x-assign", "fast", "--x-initial", "fast", "--noassert", "-Wno-fatal",
+    // --savable: the harness saves the model's complete state at each frame start to find where the demo loops
+    "--cc", "--exe", "--savable", "-O3", "--x-assign", "fast", "--x-initial", "fast", "--noassert", "-Wno-fatal",
     "--top-module", ruleset.topModule, "--prefix", "Vtop", "-Mdir", "obj", ...sources, "harness.cpp",
   ];
 }
@@ -110,7 +121,7 @@ export const MODEL_CXX_FLAGS = "-O3 -march=native -fno-tree-slp-vectorize";
 export const RUNTIME_CXX_FLAGS = "-O2 -march=native";
 
 // The runtime objects are copied after verilator has written obj/Vtop.mk, which they must be newer than.
-const COPY_RUNTIME = "{ [ ! -d runtime ] || cp runtime/verilated.o runtime/verilated_threads.o obj/; }";
+const COPY_RUNTIME = `{ [ ! -d runtime ] || cp ${RUNTIME_OBJECTS.map((n) => `runtime/${n}`).join(" ")} obj/; }`;
 const make = (fast: string, extra = "") =>
   `make -s -C obj -f Vtop.mk -j 2 OPT_FAST="${MODEL_CXX_FLAGS} ${fast}" OPT_GLOBAL="${RUNTIME_CXX_FLAGS}" ${extra}`.trim();
 const CLEAN_OBJECTS = "rm -f obj/*.o obj/*.a obj/Vtop";
@@ -149,6 +160,24 @@ export async function warmBuildTools(): Promise<void> {
   await Promise.all([verilatorRuntime(RUNTIME_CXX_FLAGS), verilatorPch(MODEL_CXX_FLAGS)]);
 }
 
+/** Frames a second at the ruleset's clock and video mode (before any measurement). */
+export function nominalFrameRate(ruleset: Ruleset): number {
+  const mode = videoMode(ruleset.videoMode);
+  return ruleset.clock.frequencyHz / (mode.h.total * ruleset.clock.clocksPerPixel * mode.v.total);
+}
+
+/** The most frames a capture runs: the frames asked for, else the ruleset's, else maxRunSeconds of picture. */
+export function captureFrameLimit(ruleset: Ruleset, frames?: number | null): number {
+  return frames ?? ruleset.simulation.frames ?? Math.ceil(ruleset.simulation.maxRunSeconds * nominalFrameRate(ruleset));
+}
+
+/** Seconds of wall time the sandboxed run may take: the ruleset's limit, and at least enough for the frame limit. */
+export function runWallSeconds(ruleset: Ruleset, maxFrames: number): number {
+  // small designs simulate faster than real time (EDA.md: 1.2–1.7× at 25.175 MHz); four times the picture's length leaves
+  // room for a slow design, a board clock twice as fast, and the encoder holding the harness back
+  return Math.max(ruleset.simulation.runSeconds, Math.ceil((4 * maxFrames) / nominalFrameRate(ruleset)) + 30);
+}
+
 /** Whether a profile-guided build pays for a run of `frames` frames, given what a plain build of it costs. */
 export function profilePays(ruleset: Ruleset, frames: number, plainBuildMs: number): boolean {
   const mode = videoMode(ruleset.videoMode);
@@ -158,8 +187,8 @@ export function profilePays(ruleset: Ruleset, frames: number, plainBuildMs: numb
 
 export async function simulateDesign(req: SimulationRequest): Promise<SimulationOutcome> {
   const { ruleset } = req;
-  const frames = req.frames ?? ruleset.simulation.frames;
-  if (!Number.isInteger(frames) || frames < 1 || frames > 600) throw new SimulationInputError(`frames must be a whole number from 1 to 600, not ${frames}`);
+  const frames = captureFrameLimit(ruleset, req.frames);
+  if (!Number.isInteger(frames) || frames < 1 || frames > 36_000) throw new SimulationInputError(`frames must be a whole number from 1 to 36000, not ${frames}`);
   if (req.verilogFiles.length === 0) throw new SimulationInputError("no Verilog files to simulate");
   const buildDir = join(req.workDir, "build");
   rmSync(buildDir, { recursive: true, force: true });
@@ -240,7 +269,7 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
           const seconds = Math.min(20, left());
           const profiled = await runSandboxed({
             command: "/build/obj/Vtop", args: [String(PROFILE_FRAMES), "/build/profile"], buildDir,
-            limits: { wallSeconds: seconds, cpuSeconds: seconds, memoryBytes, fileSizeBytes: (PROFILE_FRAMES + 1) * frameBytes(ruleset) },
+            limits: { wallSeconds: seconds, cpuSeconds: seconds, memoryBytes, fileSizeBytes: (PROFILE_FRAMES + 1) * (frameBytes(ruleset) + 16) + 64 * 1024 * 1024 },
             maxOutputBytes: 64 * 1024,
           });
           profileGuided = !classify(profiled);
@@ -256,34 +285,42 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
     return { ok: false, stage: "compile", reason: compileFailure, limitSeconds: ruleset.simulation.compileSeconds, log: tail(compile.stderr || compile.stdout) };
   }
 
-  const framesPath = join(buildDir, "out", "frames.rgb");
+  const wallSeconds = runWallSeconds(ruleset, frames);
+  let frameStream: Readable | null = null;
   const running = runSandboxed({
     command: "/build/obj/Vtop",
-    args: [String(frames), "/build/out"],
+    // the harness ends by itself a little before the sandbox would kill it, keeping what it has
+    args: [String(frames), "/build/out", String(req.tailFrames ?? 0), "3", String(Math.max(1, wallSeconds - 10))],
     buildDir,
     limits: {
-      wallSeconds: ruleset.simulation.runSeconds,
-      cpuSeconds: ruleset.simulation.runSeconds,
+      wallSeconds,
+      cpuSeconds: wallSeconds,
       memoryBytes,
-      fileSizeBytes: Math.max(500_000_000, (frames + 1) * frameBytes(ruleset)),
+      // frames are not written to disk; this bounds the saved states and the audio
+      fileSizeBytes: 1_000_000_000,
     },
     maxOutputBytes: 256 * 1024,
+    pipes: { fd3: true },
+    onStreams: (io) => { frameStream = io.fd3; },
   });
-  // the watcher reads frames as they are written; the run is awaited even when the watcher fails
-  const [ran, watched] = await Promise.allSettled([running, req.watchFrames?.(framesPath, running)]);
+  const stream = frameStream as Readable | null;
+  if (!stream) throw new Error("the sandbox gave no frame stream");
+  // the reader consumes frames as they are written; the run is awaited even when the reader fails
+  const reading = req.onFrameStream ? req.onFrameStream(stream) : (async () => { for await (const _ of stream) void _; })();
+  const [ran, watched] = await Promise.allSettled([running, reading.finally(() => stream.destroy())]);
   if (ran.status === "rejected") throw ran.reason;
   if (watched.status === "rejected") throw watched.reason;
   const run = ran.value;
   const runFailure = classify(run);
   const summaryPath = join(buildDir, "out", "summary.json");
   if (runFailure || !existsSync(summaryPath)) {
-    return { ok: false, stage: "run", reason: runFailure ?? "failed", limitSeconds: ruleset.simulation.runSeconds, log: tail(run.stderr || run.stdout) };
+    return { ok: false, stage: "run", reason: runFailure ?? "failed", limitSeconds: wallSeconds, log: tail(run.stderr || run.stdout) };
   }
   return {
     ok: true,
     run: {
       summary: parseHarnessSummary(readFileSync(summaryPath, "utf8")),
-      framesPath,
+      maxFrames: frames,
       pcmPath: join(buildDir, "out", "audio.pcm"),
       compileMs: compile.durationMs,
       edgeMode,

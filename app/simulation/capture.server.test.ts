@@ -26,12 +26,17 @@ const VARIANTS = {
 } as const;
 type Variant = keyof typeof VARIANTS;
 
+// every frame of each capture, as the harness sent it (frames are streamed, never written to disk)
+const framesOf = new Map<string, Uint8Array[]>();
+
 async function capture(name: string, defines: string, encode = false, file = "gc_pattern.v", ruleset = DEMO_RULESET, forceBothEdges = false): Promise<ReferenceCapture> {
   const src = join(root, name, "src");
   execFileSync("mkdir", ["-p", src]);
   writeFileSync(join(src, "variant.v"), `${defines}\n`);
   copyFileSync(join(FIXTURES, file), join(src, "design.v"));
-  return runReferenceCapture({ sourceDir: src, verilogFiles: ["variant.v", "design.v"], ruleset, workDir: join(root, name, "work"), frames: 4, encode, forceBothEdges });
+  const frames: Uint8Array[] = [];
+  framesOf.set(name, frames);
+  return runReferenceCapture({ sourceDir: src, verilogFiles: ["variant.v", "design.v"], ruleset, workDir: join(root, name, "work"), frames: 4, encode, forceBothEdges, onFrame: (img) => frames.push(img.data) });
 }
 
 /** Pixels of a captured frame that differ from gc_pattern.v's formula; `rgb` is the frame as rgb24. */
@@ -48,7 +53,6 @@ function patternMismatches(rgb: Uint8Array): number {
   return mismatches;
 }
 
-const framesFile = (name: string) => join(root, name, "work", "build", "out", "frames.rgb");
 
 const results = new Map<Variant, ReferenceCapture>();
 beforeAll(async () => {
@@ -59,7 +63,9 @@ beforeAll(async () => {
   }
 }, 300_000);
 
-const failed = (findings: Finding[]) => findings.filter((f) => f.verdict !== "pass").map((f) => f.rule).sort();
+// four frames are less than the one second WCAG counts flashes in: the flash findings say "unmeasured" (a warning)
+// in every capture here, and are checked on their own below
+const failed = (findings: Finding[]) => findings.filter((f) => f.verdict !== "pass" && !f.rule.startsWith("flash.")).map((f) => f.rule).sort();
 
 describe("reference capture of a correct design", () => {
   it("passes every timing rule with the VESA DMT values", () => {
@@ -98,9 +104,13 @@ describe("reference capture of a correct design", () => {
     expect(readFileSync(c.files.waveformSvg!, "utf8")).toContain("<svg");
   });
 
-  it("passes flash safety and reports its speed", () => {
+  it("claims nothing about flashes from four frames, and reports its speed", () => {
     const c = results.get("correct")!;
-    expect(c.flash!.passes).toBe(true);
+    // WCAG 2.2 SC 2.3.1 counts flashes in any one-second period: 4 frames at 59.94 Hz are 0.067 s
+    expect(c.flashFigures).toMatchObject({ verdict: "unmeasured", worstSecondFlashes: null, wholeDemo: false });
+    expect(c.flashFigures!.statement).toMatch(/not measured/);
+    expect(c.findings.filter((f) => f.rule.startsWith("flash.")).map((f) => [f.verdict, f.measured])).toEqual([["warn", "unmeasured"], ["warn", "unmeasured"]]);
+    expect(c.loop).toMatchObject({ detected: false, stoppedBy: "frames", framesCaptured: 4 });
     expect(c.speed!.cycles).toBeGreaterThan(4 * 420_000);
     expect(c.speed!.realTimeMultiple).toBeCloseTo(c.speed!.cyclesPerSecond / 25_175_000, 6);
   });
@@ -153,7 +163,7 @@ describe("evaluating only the rising clock edge", () => {
     const full = await capture("correctBothEdges", VARIANTS.correct, false, "gc_pattern.v", DEMO_RULESET, true);
     expect(results.get("correct")!.speed!.edgeMode).toBe("rising-only");
     expect(full.speed!.edgeMode).toBe("both-edges");
-    expect(readFileSync(framesFile("correct")).equals(readFileSync(framesFile("correctBothEdges")))).toBe(true);
+    expect(Buffer.concat(framesOf.get("correct")!).equals(Buffer.concat(framesOf.get("correctBothEdges")!))).toBe(true);
     expect(full.findings).toEqual(results.get("correct")!.findings);
   }, 120_000);
 
@@ -161,10 +171,9 @@ describe("evaluating only the rising clock edge", () => {
     const c = results.get("fallingGreen")!;
     expect(c.speed!.edgeMode).toBe("both-edges");
     expect(failed(c.findings)).toEqual([]);
-    const frames = readFileSync(framesFile("fallingGreen"));
-    const frameBytes = 640 * 480 * 3;
-    expect(frames.length).toBe(4 * frameBytes);
-    for (let i = 0; i < 4; i++) expect(patternMismatches(frames.subarray(i * frameBytes, (i + 1) * frameBytes))).toBe(0);
+    const frames = framesOf.get("fallingGreen")!;
+    expect(frames).toHaveLength(4);
+    for (const f of frames) expect(patternMismatches(f)).toBe(0);
   });
 });
 

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { FlashAnalyzer, flashGrid, relativeLuminance, srgbToLinear, chromaticity, type FlashReport } from "./flash";
+import { DEMO_RULESET } from "~/rules/ruleset";
+import { captureSpan, FlashAnalyzer, flashFigures, flashGrid, relativeLuminance, srgbToLinear, chromaticity, type FlashReport, type FlashViewing } from "./flash";
 import type { RgbImage } from "./frames";
 
 // Check values: WCAG 2.2 definition of relative luminance (L = 0.2126 R + 0.7152 G + 0.0722 B on
@@ -36,8 +37,8 @@ function frame(fill: (x: number, y: number) => [number, number, number]): RgbIma
 }
 
 /** `seconds` of frames alternating between two images at `flashesPerSecond` full cycles a second. */
-function run(a: RgbImage, b: RgbImage, flashesPerSecond: number, seconds = 2): FlashReport {
-  const analyzer = new FlashAnalyzer(W / 4, H / 4, FPS);
+function run(a: RgbImage, b: RgbImage, flashesPerSecond: number, seconds = 2, viewing: FlashViewing = "desk"): FlashReport {
+  const analyzer = new FlashAnalyzer(W / 4, H / 4, FPS, viewing);
   const ga = flashGrid(a, 4), gb = flashGrid(b, 4);
   for (let i = 0; i < FPS * seconds; i++) {
     const phase = Math.floor((i * 2 * flashesPerSecond) / FPS) % 2;
@@ -104,5 +105,54 @@ describe("red flash threshold (WCAG 2.2 definition, saturated red per ISO 9241-3
     const green = frame(() => [0, 160, 0]);
     const blue = frame(() => [0, 0, 255]);
     expect(run(green, blue, 5).red.worstFlashes).toBe(0);
+  });
+});
+
+describe("viewing in a hall: the area exemption does not apply", () => {
+  // WCAG 2.2's 341 × 256 px at 1024 × 768 estimates a 10° field at a desk; in a hall the exemption is dropped
+  const square = frame((x, y) => (x >= 300 && x < 380 && y >= 200 && y < 280 ? [255, 255, 255] : [0, 0, 0]));
+  it("fails a small square flashing four times a second that desk viewing lets pass", () => {
+    expect(run(black, square, 4, 2, "desk").general.passes).toBe(true);
+    const hall = run(black, square, 4, 2, "hall");
+    expect(hall.viewing).toBe("hall");
+    expect(hall.general.worstFlashes).toBe(4);
+    expect(hall.general.passes).toBe(false);
+    // the worst place is inside the square
+    expect(hall.general.region!.x * W).toBeGreaterThanOrEqual(300);
+    expect(hall.general.region!.x * W).toBeLessThan(380);
+  });
+  it("still passes three flashes a second, and counts per place: stripes scrolling past are not a flash a frame", () => {
+    expect(run(black, square, 3, 2, "hall").general.passes).toBe(true);
+    // 32-px stripes moving 2 px a frame: every frame changes somewhere, but each place changes every 16 frames
+    const analyzer = new FlashAnalyzer(W / 4, H / 4, FPS, "hall");
+    for (let i = 0; i < 120; i++) analyzer.push(flashGrid(frame((x) => ((Math.floor((x + 2 * i) / 32) % 2) ? [255, 255, 255] : [0, 0, 0])), 4));
+    const r = analyzer.report();
+    expect(r.general.worstFlashes).toBeLessThanOrEqual(2);
+    expect(r.general.passes).toBe(true);
+  });
+});
+
+describe("flash figures name the span they cover", () => {
+  const report = run(black, white, 2, 2);
+  it("says the whole loop when the demo looped, and the first seconds when it did not", () => {
+    const looped = flashFigures(report, DEMO_RULESET, captureSpan(2.2, { detected: true, firstLoopFrame: 0, periodSeconds: 1.2 }, 60, null));
+    expect(looped).toMatchObject({ verdict: "pass", wholeDemo: true, span: "the whole 1.2 s loop", worstSecondFlashes: 2 });
+    expect(looped.statement).toContain("in the whole 1.2 s loop");
+    expect(looped.source).toMatch(/2\.3\.1/);
+    const first = flashFigures(report, DEMO_RULESET, captureSpan(180, { detected: false, firstLoopFrame: 0, periodSeconds: null }, 60, "the demo did not loop within 180 s"));
+    expect(first).toMatchObject({ wholeDemo: false, span: "the first 180 s (the demo did not loop within 180 s)" });
+  });
+  it("claims nothing under one second", () => {
+    const f = flashFigures(report, DEMO_RULESET, captureSpan(0.5, { detected: false, firstLoopFrame: 0, periodSeconds: null }, 60, null));
+    expect(f).toMatchObject({ verdict: "unmeasured", worstSecondFlashes: null, worstSecondAt: null });
+    expect(f.statement).toMatch(/not measured/);
+  });
+  it("turns a failure into a block when the ruleset says so", () => {
+    const fast = run(black, white, 5, 2);
+    const ruleset = { ...DEMO_RULESET, flashCheck: { ...DEMO_RULESET.flashCheck, action: "block" as const } };
+    const f = flashFigures(fast, ruleset, captureSpan(2, { detected: false, firstLoopFrame: 0, periodSeconds: null }, 60, null));
+    expect(f.verdict).toBe("fail");
+    expect(f.worstSecondFlashes).toBe(5);
+    expect(f.statement).toMatch(/FLAGGED — 5 flashes in one second/);
   });
 });

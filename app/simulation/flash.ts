@@ -19,7 +19,13 @@ import type { RgbImage } from "./frames";
  * R/(R+G+B) is taken on the stored (gamma-encoded) values; a black cell has no chromaticity, so it is given
  * the D65 white point's; a transition is counted for a frame when the cells changing in it cover more than
  * 25 % of the worst-placed field window; more than six transitions in a second (over three flashes) fail.
+ *
+ * Viewing (the ruleset's flashCheck.viewing): the 341 × 256 estimate is for a desk monitor at reading distance.
+ * "desk" applies it as above. "hall" — a projector in a hall, where a 10° field is a much smaller share of the
+ * screen — drops the area exemption: transitions are counted per cell, so a flash anywhere on the screen counts,
+ * whatever its size, when one place flashes more than three times in a second.
  */
+export type FlashViewing = "desk" | "hall";
 
 /** sRGB linearisation threshold of IEC 61966-2-1 (WCAG 2.0/2.1 print 0.03928; both agree on every 8-bit value). */
 export const LINEARISE_THRESHOLD = 0.04045;
@@ -61,6 +67,8 @@ export const MAX_TRANSITIONS_PER_SECOND = 6; // three flashes, each a pair of op
 export const FIELD_FRACTION_W = 341 / 1024;
 export const FIELD_FRACTION_H = 256 / 768;
 export const FIELD_AREA_SHARE = 0.25;
+/** hall viewing keeps this many transitions per cell: more than a second holds at 60 frames a second */
+const HALL_RING = 64;
 
 /** One frame reduced to cells of linear RGB (r, g, b per cell). */
 export interface FlashGrid {
@@ -126,6 +134,7 @@ export interface FlashKindReport {
 export interface FlashReport {
   framesAnalysed: number;
   fps: number;
+  viewing: FlashViewing;
   grid: { width: number; height: number };
   field: { width: number; height: number; areaShare: number };
   general: FlashKindReport;
@@ -189,8 +198,12 @@ export class FlashAnalyzer {
   private readonly sat: Int32Array;
   private peakGeneral = 0;
   private peakRed = 0;
+  // hall viewing: the last HALL_RING transition frames of every cell, per kind, and the worst window found
+  private readonly hallRing: Int32Array[] = [];
+  private readonly hallCount: Int32Array[] = [];
+  private readonly hallWorst = [{ count: 0, frame: -1, cell: -1 }, { count: 0, frame: -1, cell: -1 }];
 
-  constructor(readonly width: number, readonly height: number, readonly fps: number) {
+  constructor(readonly width: number, readonly height: number, readonly fps: number, readonly viewing: FlashViewing = "desk") {
     if (!(fps > 0) || !Number.isFinite(fps)) throw new FlashInputError(`frame rate must be positive, not ${fps}`);
     if (width < 3 || height < 3) throw new FlashInputError(`a flash grid of ${width}×${height} cells is too coarse`);
     this.cells = width * height;
@@ -206,6 +219,30 @@ export class FlashAnalyzer {
     this.generalMask = new Uint8Array(this.cells);
     this.redMask = new Uint8Array(this.cells);
     this.sat = new Int32Array((width + 1) * (height + 1));
+    if (viewing === "hall") {
+      for (let k = 0; k < 2; k++) {
+        this.hallRing.push(new Int32Array(this.cells * HALL_RING));
+        this.hallCount.push(new Int32Array(this.cells));
+      }
+    }
+  }
+
+  /** hall viewing: a transition of `kind` (0 general, 1 red) at cell `c`; counts that cell's transitions in the last second. */
+  private hallTransition(kind: number, c: number): void {
+    const ring = this.hallRing[kind], counts = this.hallCount[kind];
+    const n = counts[c];
+    const base = c * HALL_RING;
+    ring[base + (n % HALL_RING)] = this.frame;
+    counts[c] = n + 1;
+    let inWindow = 0, earliest = this.frame;
+    for (let k = 0; k < Math.min(n + 1, HALL_RING); k++) {
+      const f = ring[base + ((n - k + HALL_RING) % HALL_RING)];
+      if ((this.frame - f) / this.fps >= 1) break;
+      inWindow++;
+      earliest = f;
+    }
+    const worst = this.hallWorst[kind];
+    if (inWindow > worst.count) { worst.count = inWindow; worst.frame = earliest; worst.cell = c; }
   }
 
   push(grid: FlashGrid): void {
@@ -230,18 +267,24 @@ export class FlashAnalyzer {
       if (lum > this.hi[c]) this.hi[c] = lum;
       if (this.dir[c] !== 1 && lum - this.lo[c] >= GENERAL_CHANGE && this.lo[c] < DARKER_BELOW) {
         this.dir[c] = 1; this.lo[c] = this.hi[c] = lum; this.generalMask[c] = 1; generalCount++;
+        if (this.hallRing.length) this.hallTransition(0, c);
       } else if (this.dir[c] !== -1 && this.hi[c] - lum >= GENERAL_CHANGE && lum < DARKER_BELOW) {
         this.dir[c] = -1; this.lo[c] = this.hi[c] = lum; this.generalMask[c] = 1; generalCount++;
+        if (this.hallRing.length) this.hallTransition(0, c);
       }
       // chromaticity only matters when a saturated red is involved on either side
       if (isRed || this.refRed[c]) {
         const [u, v] = chromaticity(rl, gl, bl);
         if (Math.hypot(u - this.refU[c], v - this.refV[c]) > RED_CHROMA_CHANGE) {
           this.refU[c] = u; this.refV[c] = v; this.refRed[c] = isRed; this.redMask[c] = 1; redCount++;
+          if (this.hallRing.length) this.hallTransition(1, c);
         }
       }
     }
-    if (!first) {
+    if (!first && this.viewing === "hall") {
+      this.peakGeneral = Math.max(this.peakGeneral, generalCount / this.cells);
+      this.peakRed = Math.max(this.peakRed, redCount / this.cells);
+    } else if (!first) {
       this.peakGeneral = Math.max(this.peakGeneral, generalCount ? this.record(this.generalMask, this.generalEvents) : 0);
       this.peakRed = Math.max(this.peakRed, redCount ? this.record(this.redMask, this.redEvents) : 0);
     }
@@ -283,14 +326,27 @@ export class FlashAnalyzer {
     };
   }
 
+  private summariseHall(kind: number, peak: number, fps: number): FlashKindReport {
+    const w = this.hallWorst[kind];
+    const region = w.cell < 0 ? null : { x: (w.cell % this.width) / this.width, y: Math.floor(w.cell / this.width) / this.height, width: 1 / this.width, height: 1 / this.height };
+    return { worstFlashes: w.count / 2, worstSecondStartS: w.frame < 0 ? null : w.frame / fps, region, peakFieldShare: peak, passes: w.count <= MAX_TRANSITIONS_PER_SECOND };
+  }
+
+  /** Frames pushed so far. */
+  get frames(): number {
+    return this.frame;
+  }
+
   /** `fps`: the frame rate measured once all frames are in, when it differs from the one assumed at the start. */
   report(fps = this.fps): FlashReport {
     if (!(fps > 0) || !Number.isFinite(fps)) throw new FlashInputError(`frame rate must be positive, not ${fps}`);
-    const general = this.summarise(this.generalEvents, this.peakGeneral, fps);
-    const red = this.summarise(this.redEvents, this.peakRed, fps);
+    const hall = this.viewing === "hall";
+    const general = hall ? this.summariseHall(0, this.peakGeneral, fps) : this.summarise(this.generalEvents, this.peakGeneral, fps);
+    const red = hall ? this.summariseHall(1, this.peakRed, fps) : this.summarise(this.redEvents, this.peakRed, fps);
     return {
       framesAnalysed: this.frame,
       fps,
+      viewing: this.viewing,
       grid: { width: this.width, height: this.height },
       field: { width: this.fw, height: this.fh, areaShare: FIELD_AREA_SHARE },
       general,
@@ -307,27 +363,102 @@ function where(region: FlashRegion | null, frameWidth: number, frameHeight: numb
   return ` in the ${w}×${h} px field at (${x}, ${y})`;
 }
 
+/** What a flash report covers, in words the public reads: "the whole 34.1 s loop", "the first 180 s". */
+export interface FlashSpan {
+  analysedSeconds: number;
+  /** every frame the viewer can ever see was analysed: the whole loop (and the intro before it), or a whole video */
+  wholeDemo: boolean;
+  text: string;
+}
+
+export const WCAG_SOURCE = "WCAG 2.2 success criterion 2.3.1 and its definition of the general flash and red flash thresholds";
+
+const secondsText = (s: number) => `${s < 10 ? s.toFixed(1) : Math.round(s)} s`;
+
+/** The span of a reference capture: its loop when one was found, else the first seconds. */
+export function captureSpan(seconds: number, loop: { detected: boolean; firstLoopFrame: number; periodSeconds: number | null }, fps: number, stoppedBy: string | null): FlashSpan {
+  if (loop.detected && loop.periodSeconds !== null) {
+    const intro = loop.firstLoopFrame / fps;
+    const text = intro >= 0.05 ? `the ${secondsText(intro)} intro and the whole ${secondsText(loop.periodSeconds)} loop` : `the whole ${secondsText(loop.periodSeconds)} loop`;
+    return { analysedSeconds: seconds, wholeDemo: true, text };
+  }
+  return { analysedSeconds: seconds, wholeDemo: false, text: `the first ${secondsText(seconds)}${stoppedBy ? ` (${stoppedBy})` : ""}` };
+}
+
+/** The span of an uploaded video: whole when it ended before the limit. */
+export function videoSpan(seconds: number, whole: boolean): FlashSpan {
+  return { analysedSeconds: seconds, wholeDemo: whole, text: whole ? `the whole ${secondsText(seconds)} video` : `the first ${secondsText(seconds)} of the video` };
+}
+
+export type FlashVerdictWord = "pass" | "warn" | "fail" | "unmeasured";
+
+/** The flash figures a check run stores and pages read (app/showcase/figures.ts). */
+export interface FlashFigures {
+  verdict: FlashVerdictWord;
+  worstSecondFlashes: number | null;
+  /** seconds from the start of the analysed span to the start of the worst one-second window */
+  worstSecondAt: number | null;
+  analysedSeconds: number;
+  wholeDemo: boolean;
+  span: string;
+  viewing: FlashViewing;
+  /** the sentence for the public, naming the span */
+  statement: string;
+  source: string;
+}
+
+/** Under one second nothing is claimed: WCAG counts flashes in any one-second period. */
+export function flashFigures(report: FlashReport, ruleset: Ruleset, span: FlashSpan, action: "warn" | "block" = ruleset.flashCheck.action): FlashFigures {
+  const worst = Math.max(report.general.worstFlashes, report.red.worstFlashes);
+  const worstKind = report.general.worstFlashes >= report.red.worstFlashes ? report.general : report.red;
+  const unmeasured = span.analysedSeconds < 1;
+  const verdict: FlashVerdictWord = unmeasured ? "unmeasured" : report.passes ? "pass" : action === "block" ? "fail" : "warn";
+  const viewing = report.viewing === "hall" ? "hall viewing: a flash anywhere on the screen counts" : "desk viewing: WCAG's 10° field area rule applies";
+  const at = worstKind.worstSecondStartS;
+  const statement =
+    verdict === "unmeasured"
+      ? `Flash check: not measured — only ${span.analysedSeconds.toFixed(2)} s was analysed, less than the one second WCAG 2.3.1 counts flashes in; nothing is claimed.`
+      : verdict === "pass"
+        ? `Flash check: no flashes over the WCAG 2.3.1 thresholds in ${span.text} (at most ${worst} a second; ${viewing}).`
+        : `Flash check: FLAGGED — ${worst} flashes in one second${at === null ? "" : ` from ${at.toFixed(1)} s`}, over the WCAG 2.3.1 limit of three, in ${span.text} (${viewing}).`;
+  return {
+    verdict,
+    worstSecondFlashes: unmeasured ? null : worst,
+    worstSecondAt: unmeasured ? null : at,
+    analysedSeconds: span.analysedSeconds,
+    wholeDemo: span.wholeDemo,
+    span: span.text,
+    viewing: report.viewing,
+    statement,
+    source: WCAG_SOURCE,
+  };
+}
+
 /** Findings for a flash report; `action` of the ruleset turns a failure into a warning or a block. */
-export function flashFindings(report: FlashReport, ruleset: Ruleset, subject = "reference capture", frameWidth = 640, frameHeight = 480): Finding[] {
+export function flashFindings(report: FlashReport, ruleset: Ruleset, subject = "reference capture", frameWidth = 640, frameHeight = 480, span?: FlashSpan): Finding[] {
   const failVerdict = ruleset.flashCheck.action === "block" ? "fail" : "warn";
   const kinds = [
     ["general", "general flashes", report.general],
     ["red", "red flashes", report.red],
   ] as const;
   const seconds = report.framesAnalysed / report.fps;
-  const short = seconds < 1
-    ? `; only ${report.framesAnalysed} frames (${seconds.toFixed(2)} s) were analysed, less than the one-second window WCAG counts in: flashing beyond them is not seen`
-    : "";
+  const covered = span ?? { analysedSeconds: seconds, wholeDemo: false, text: `the first ${seconds.toFixed(2)} s` };
+  const unmeasured = covered.analysedSeconds < 1;
+  const area = report.viewing === "hall" ? "anywhere on the screen (hall viewing)" : "over 25 % of a 10° field";
   return kinds.map(([key, label, k]) => ({
     step: "flash" as const,
     rule: `flash.${key}`,
-    verdict: k.passes ? "pass" : failVerdict,
+    verdict: unmeasured ? "warn" : k.passes ? "pass" : failVerdict,
     title: `${label} per second (WCAG 2.2 SC 2.3.1)`,
-    measured: k.worstFlashes,
+    measured: unmeasured ? "unmeasured" : k.worstFlashes,
     limit: MAX_TRANSITIONS_PER_SECOND / 2,
-    evidence: (k.worstSecondStartS === null
-      ? `no ${label} over 25 % of a 10° field in ${report.framesAnalysed} frames of the ${subject}`
-      : `worst second starts at ${k.worstSecondStartS.toFixed(2)} s${where(k.region, frameWidth, frameHeight)} of the ${subject}`) + short,
-    advice: k.passes ? undefined : "slow the flashing to three a second or fewer, shrink the flashing area, or soften the contrast",
+    evidence: unmeasured
+      ? `only ${report.framesAnalysed} frames (${covered.analysedSeconds.toFixed(2)} s) of the ${subject} were analysed, less than the one-second window WCAG counts in: nothing is claimed`
+      : (k.worstSecondStartS === null
+        ? `no ${label} ${area} in ${covered.text} of the ${subject}`
+        : `worst second starts at ${k.worstSecondStartS.toFixed(2)} s${where(k.region, frameWidth, frameHeight)}, in ${covered.text} of the ${subject}`) + `; ${WCAG_SOURCE}`,
+    advice: unmeasured
+      ? "capture at least one second (more frames, or the whole demo) so the flash check can measure"
+      : k.passes ? undefined : "slow the flashing to three a second or fewer, shrink the flashing area, or soften the contrast",
   }));
 }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { DEMO_PINS, DEMO_RULESET, rulesetSchema } from "~/rules/ruleset";
 import { generateHarness, HarnessError } from "./harness";
+import { verilatorArgs } from "./build.server";
 import { contactSheet, encodePng, FrameError, spreadIndices } from "./frames";
 import { PNG } from "pngjs";
 
@@ -11,6 +12,12 @@ describe("harness generation", () => {
     expect(cpp).toContain("top->rst_n = 0;"); // active-low reset asserted
     expect(cpp).toContain("H_TOTAL = 800");
     expect(cpp).toContain("V_TOTAL = 525");
+  });
+  it("builds a savable model and filters the audio pin at the ruleset's cut-off", () => {
+    expect(verilatorArgs(DEMO_RULESET, ["src/a.v"])).toContain("--savable");
+    const cpp = generateHarness(rulesetSchema.parse({ ...DEMO_RULESET, audio: { lowPassHz: 1234 } }));
+    expect(cpp).toContain("LOW_PASS_HZ = 1234;");
+    expect(cpp).toContain("*this << *top"); // the model's whole state, saved at each frame start
   });
   it("follows a high-active reset", () => {
     const cpp = generateHarness(rulesetSchema.parse({ ...DEMO_RULESET, resetActive: "high" }));

@@ -11,7 +11,7 @@ import { runSandboxed } from "~/sandbox/sandbox.server";
  *   compiled with, shown read-only inside the sandbox: parsing that header was half of each file's compile.
  * Nothing is ever copied back from an entrant's build, so an upload cannot change what others get.
  */
-export const RUNTIME_OBJECTS = ["verilated.o", "verilated_threads.o"] as const;
+export const RUNTIME_OBJECTS = ["verilated.o", "verilated_threads.o", "verilated_save.o"] as const;
 /** Where the precompiled header folder appears inside the sandbox, and the header to pass with -include. */
 export const PCH_MOUNT = "/gc-pch";
 export const PCH_HEADER = `${PCH_MOUNT}/gc_pch.h`;
@@ -84,7 +84,7 @@ function once(what: string, flags: string, names: readonly string[], build: (tar
  */
 export function verilatorRuntime(flags: string): Promise<string | null> {
   return once("runtime", flags, RUNTIME_OBJECTS, (target) =>
-    buildOnce(target, 'make -s -C obj -f Vtop.mk -j 2 OPT_GLOBAL="$1" verilated.o verilated_threads.o', flags, RUNTIME_OBJECTS.map((n) => ({ from: `obj/${n}`, name: n }))),
+    buildOnce(target, `make -s -C obj -f Vtop.mk -j 2 OPT_GLOBAL="$1" ${RUNTIME_OBJECTS.join(" ")}`, flags, RUNTIME_OBJECTS.map((n) => ({ from: `obj/${n}`, name: n }))),
   );
 }
 

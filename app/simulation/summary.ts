@@ -21,7 +21,14 @@ export const harnessSummarySchema = z.object({
   cycles: z.number().int().nonnegative(),
   seconds: z.number().nonnegative(),
   cpuSeconds: z.number().nonnegative(),
+  /** frames up to the loop point (or the cap); the tail frames after the loop point are not counted */
   framesCaptured: z.number().int().nonnegative(),
+  // optional: summaries from before loop detection (and hand-made ones in tests) lack them
+  tailFrames: z.number().int().nonnegative().optional(),
+  stoppedAtWallLimit: z.boolean().optional(),
+  loop: z
+    .object({ detected: z.boolean(), firstLoopFrame: z.number().int(), periodFrames: z.number().int().nonnegative(), stateBytes: z.number().int().nonnegative() })
+    .optional(),
   hsync: syncSchema,
   vsync: syncSchema,
   linesPerFrame: z.object({ min: z.number().int(), max: z.number().int(), frames: z.number().int() }),
@@ -32,7 +39,13 @@ export const harnessSummarySchema = z.object({
     firstHpos: z.number().int(),
     firstColour: z.number().int(),
   }),
-  audio: z.object({ sampleRate: z.number().int().positive(), samples: z.number().int().nonnegative() }),
+  audio: z.object({
+    sampleRate: z.number().int().positive(),
+    samples: z.number().int().nonnegative(),
+    risingEdges: z.number().int().nonnegative().optional(),
+    maxRisingEdgesPerFrame: z.number().int().nonnegative().optional(),
+    lowPassHz: z.number().positive().optional(),
+  }),
 });
 
 export type HarnessSummary = z.infer<typeof harnessSummarySchema>;

@@ -28,13 +28,32 @@ describe("uploaded capture videos", () => {
   it("finds four full-screen flashes a second in an MP4 and three pass", async () => {
     const fast = makeVideo("fast", 2 * FPS, (f) => (Math.floor((f * 8) / FPS) % 2 ? 255 : 0));
     const slow = makeVideo("slow", 2 * FPS, (f) => (Math.floor((f * 6) / FPS) % 2 ? 255 : 0));
-    const a = await analyzeVideoFile(fast, { workDir: join(root, "a") });
+    const { report: a, span } = await analyzeVideoFile(fast, { workDir: join(root, "a") });
     expect(a.general.worstFlashes).toBe(4);
     expect(a.general.passes).toBe(false);
-    const b = await analyzeVideoFile(slow, { workDir: join(root, "b") });
+    // the whole two seconds were seen, and the span says so
+    expect(span.wholeDemo).toBe(true);
+    expect(span.analysedSeconds).toBeCloseTo(2, 1);
+    expect(span.text).toBe("the whole 2.0 s video");
+    const { report: b } = await analyzeVideoFile(slow, { workDir: join(root, "b") });
     expect(b.general.worstFlashes).toBe(3);
     expect(b.passes).toBe(true);
   }, 60_000);
+
+  it("analyses past two minutes, and says when it stopped before the end", async () => {
+    // 130 s: the analysis used to stop at 120 s. Flashing starts at 125 s (4 a second, over WCAG 2.3.1's three).
+    const long = join(root, "long.mp4");
+    execFileSync("ffmpeg", ["-v", "error", "-y", "-f", "lavfi", "-i", "color=c=black:s=160x120:r=60000/1001:d=130",
+      "-vf", "drawbox=w=iw:h=ih:color=white:t=fill:enable='gte(t,125)*lt(mod(t,0.25),0.125)'", "-c:v", "libx264", "-preset", "ultrafast", "-pix_fmt", "yuv420p", long]);
+    const whole = await analyzeVideoFile(long, { workDir: join(root, "e") });
+    expect(whole.span.wholeDemo).toBe(true);
+    expect(whole.span.analysedSeconds).toBeGreaterThan(129);
+    expect(whole.report.general.passes).toBe(false);
+    expect(whole.report.general.worstSecondStartS!).toBeGreaterThan(124.5);
+    const capped = await analyzeVideoFile(long, { workDir: join(root, "f"), maxSeconds: 60 });
+    expect(capped.span).toMatchObject({ wholeDemo: false, text: "the first 60 s of the video" });
+    expect(capped.report.general.passes).toBe(true);
+  }, 120_000);
 
   it("refuses a file that is not a video with a clear error", async () => {
     writeFileSync(join(root, "notes.mp4"), "these are not moving pictures");

@@ -132,3 +132,25 @@ ${lfsrRegs}
 endmodule
 `;
 }
+
+/**
+ * The entry-shaped design made to loop: every state register goes back to its reset value at the end of frame
+ * `frames`, at the same point of the picture where the reset left it, so the design's complete state repeats and
+ * a whole-demo capture ends after exactly one loop. 3596 frames at 59.94 Hz are 60.0 s.
+ */
+export function loopingEntryDesign(frames = 3596): string {
+  const src = entryShapedDesign();
+  const at = "  always @(posedge clk) begin\n    if (!rst_n) begin";
+  if (!src.includes(at)) throw new Error("the entry-shaped design changed: no reset block to loop from");
+  return src.replace(
+    at,
+    `  reg [15:0] demo_frame;
+  wire frame_end = x == 799 && y == 524;
+  wire restart = frame_end && demo_frame == 16'd${frames - 1};
+  always @(posedge clk)
+    if (!rst_n) demo_frame <= 0;
+    else if (frame_end) demo_frame <= restart ? 16'd0 : demo_frame + 16'd1;
+  always @(posedge clk) begin
+    if (!rst_n || restart) begin`,
+  );
+}

@@ -2,14 +2,14 @@
 // Verilog (iverilog/vvp from Debian) on the same generated designs, measured in the same run.
 // Run alone: npx tsx scripts/bench/simulation.bench.ts
 import { execFileSync } from "node:child_process";
-import { chmodSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { chmodSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { DEMO_RULESET } from "../../app/rules/ruleset";
 import { RUNTIME_CXX_FLAGS } from "../../app/simulation/build.server";
 import { runReferenceCapture, type ReferenceCapture } from "../../app/simulation/capture.server";
 import { verilatorRuntime } from "../../app/simulation/runtime-cache.server";
-import { entryShapedDesign, flipFlopHeavyDesign } from "./designs";
+import { entryShapedDesign, flipFlopHeavyDesign, loopingEntryDesign } from "./designs";
 
 const REAL_TIME_HZ = 25_175_000;
 // one second of picture: the window the flash rule counts in, and the demo rulesets' capture length
@@ -115,6 +115,100 @@ async function benchDesign(label: string, source: string): Promise<{ label: stri
   }
 }
 
+/** Resident memory of this process and every process under it (harness, ffmpeg, the sandbox around them), in bytes. */
+function treeRss(): number {
+  const children = new Map<number, number[]>();
+  const rss = new Map<number, number>();
+  for (const name of readdirSync("/proc")) {
+    if (!/^\d+$/.test(name)) continue;
+    try {
+      const stat = readFileSync(`/proc/${name}/stat`, "utf8");
+      // pid (comm) state ppid … ; comm may hold spaces, so read after the last ")"
+      const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+      const ppid = Number(fields[1]);
+      const pages = Number(fields[21]);
+      rss.set(Number(name), pages * 4096);
+      children.set(ppid, [...(children.get(ppid) ?? []), Number(name)]);
+    } catch (e) {
+      // the process ended while we looked
+      if ((e as NodeJS.ErrnoException).code !== "ENOENT" && (e as NodeJS.ErrnoException).code !== "ESRCH") throw e;
+    }
+  }
+  let total = 0;
+  const walk = (pid: number) => { total += rss.get(pid) ?? 0; for (const c of children.get(pid) ?? []) walk(c); };
+  walk(process.pid);
+  return total;
+}
+
+/** Runs `fn` while sampling the process tree's memory every 50 ms; returns its result and the peak. */
+async function withPeakMemory<T>(fn: () => Promise<T>): Promise<{ value: T; peakBytes: number }> {
+  let peak = treeRss();
+  const timer = setInterval(() => { peak = Math.max(peak, treeRss()); }, 50);
+  try {
+    const value = await fn();
+    return { value, peakBytes: Math.max(peak, treeRss()) };
+  } finally {
+    clearInterval(timer);
+  }
+}
+
+const WHOLE_REPEATS = Number(process.env.BENCH_WHOLE_REPEATS ?? 3);
+const LOOP_FRAMES = Number(process.env.BENCH_LOOP_FRAMES ?? 3596); // 60.0 s at 59.94 Hz
+
+/**
+ * Issue 13's goal: a whole 60 s looping demo of the entry-shaped design captured, analysed (flash, thumbnails,
+ * audio) and encoded to WebM and MP4 in at most its own running time, build excluded; beside it the plain one-second
+ * capture of before, measured the same way in the same run. Best of WHOLE_REPEATS (default 3; the issue asks five:
+ * BENCH_WHOLE_REPEATS=5), peak memory of the whole process tree.
+ */
+async function benchWholeDemo(): Promise<void> {
+  const root = mkdtempSync(join(tmpdir(), "gc-bench-whole-"));
+  chmodSync(root, 0o755);
+  try {
+    mkdirSync(join(root, "src"));
+    writeFileSync(join(root, "src", "entry.v"), loopingEntryDesign(LOOP_FRAMES));
+    const capture = async (name: string, frames: number | null) => {
+      const t0 = Date.now();
+      const { value, peakBytes } = await withPeakMemory(() => runReferenceCapture({
+        sourceDir: join(root, "src"), verilogFiles: ["entry.v"], ruleset: DEMO_RULESET, frames, workDir: join(root, name), encode: true,
+      }));
+      const wall = Date.now() - t0;
+      if (!value.speed) throw new Error(`bench design failed: ${JSON.stringify(value.findings[0])}`);
+      rmSync(join(root, name), { recursive: true, force: true });
+      return { capture: value, afterBuildMs: wall - value.speed.buildMs, buildMs: value.speed.buildMs, peakBytes };
+    };
+    console.log(`\nwhole-demo capture: the entry-shaped design looping every ${LOOP_FRAMES} frames; WebM + MP4 encoded; best of ${WHOLE_REPEATS}`);
+    // a first run builds the model (and its profile) into the model cache; the timed runs reuse it, the build is reported apart
+    const first = await capture("warm", null);
+    console.log(`  build (reported apart): ${first.buildMs} ms${first.capture.speed!.profileGuided ? ", profile-guided" : ""}; ${first.capture.loop!.statement}`);
+    let best: Awaited<ReturnType<typeof capture>> | null = null;
+    // the warm run's peak holds the compiler; the timed runs take the model from the cache, as a repeat upload does
+    let peak = 0;
+    for (let i = 0; i < WHOLE_REPEATS; i++) {
+      const run = await capture(`whole${i}`, null);
+      peak = Math.max(peak, run.peakBytes);
+      if (!best || run.afterBuildMs < best.afterBuildMs) best = run;
+    }
+    let plain: Awaited<ReturnType<typeof capture>> | null = null;
+    for (let i = 0; i < WHOLE_REPEATS; i++) {
+      const run = await capture(`second${i}`, FRAMES);
+      peak = Math.max(peak, run.peakBytes);
+      if (!plain || run.afterBuildMs < plain.afterBuildMs) plain = run;
+    }
+    const demoSeconds = best!.capture.loop!.periodSeconds ?? best!.capture.loop!.capturedSeconds;
+    const ratio = best!.afterBuildMs / 1000 / demoSeconds;
+    const plainSeconds = FRAMES / (REAL_TIME_HZ / (800 * 525));
+    const plainRatio = plain!.afterBuildMs / 1000 / plainSeconds;
+    console.log(`  whole demo (${demoSeconds.toFixed(1)} s loop + 1 s wrap-around for the flash check): ${(best!.afterBuildMs / 1000).toFixed(1)} s wall`);
+    console.log(`  ratio against the demo's duration: ${ratio.toFixed(2)}x   (goal <= 1.0x: ${ratio <= 1 ? "met" : "not met"})`);
+    console.log(`  plain 1 s capture (${FRAMES} frames, encoded): ${(plain!.afterBuildMs / 1000).toFixed(2)} s wall = ${plainRatio.toFixed(2)}x its duration; whole demo / 1 s capture: ${(best!.afterBuildMs / plain!.afterBuildMs).toFixed(1)}x the wall time for ${(demoSeconds / plainSeconds).toFixed(0)}x the picture`);
+    const base = process.memoryUsage().rss;
+    console.log(`  peak memory (this process and its children, sampled every 50 ms): ${(peak / 1e6).toFixed(0)} MB, of which ${(base / 1e6).toFixed(0)} MB is this Node process before any capture (goal < 300 MB for 180 s: ${peak < 300e6 ? "met" : "not met"}; above the process: ${((peak - base) / 1e6).toFixed(0)} MB)`);
+  } finally {
+    rmSync(root, { recursive: true, force: true });
+  }
+}
+
 export async function benchSimulation(): Promise<void> {
   // verilator's runtime library is built once per machine and reused; keep that out of the timings
   await verilatorRuntime(RUNTIME_CXX_FLAGS);
@@ -124,10 +218,11 @@ export async function benchSimulation(): Promise<void> {
   ];
   console.log("\nreal-time goal (whole capture without encoding >= 1x):");
   for (const r of results) console.log(`  ${r.endToEnd >= REAL_TIME_HZ ? "met    " : "not met"} ${(r.endToEnd / REAL_TIME_HZ).toFixed(2)}x  ${r.label}`);
+  await benchWholeDemo();
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
-  benchSimulation().catch((e: unknown) => {
+  (process.env.BENCH_WHOLE_ONLY ? benchWholeDemo() : benchSimulation()).catch((e: unknown) => {
     console.error(e);
     process.exit(1);
   });

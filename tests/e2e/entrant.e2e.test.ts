@@ -6,7 +6,7 @@ import { eq } from "drizzle-orm";
 import { PNG } from "pngjs";
 import { describe, expect, it } from "vitest";
 import { ZipFile } from "yazl";
-import { DEMO_RULESET } from "~/rules/ruleset";
+import { TEST_RULESET } from "../support/rulesets";
 import { db } from "~/db/client.server";
 import { competitions, entries, eventRoles, events, uploadFiles, uploads } from "~/db/schema";
 import { writeLayout } from "~/gdsii/writer";
@@ -49,7 +49,7 @@ describe("an entrant in the browser", () => {
     const [event] = await db().insert(events).values({ slug: unique("e2e-party"), title: "E2E Party", timeZone: "Europe/Berlin" }).returning();
     const [competition] = await db()
       .insert(competitions)
-      .values({ eventId: event.id, slug: "tiny", title: "Tiny Compo", state: "open", deadlineAt: new Date(Date.now() + 3 * 86400_000), graceMinutes: 5, feeAmount: 1500, feeCurrency: "eur", ruleset: DEMO_RULESET })
+      .values({ eventId: event.id, slug: "tiny", title: "Tiny Compo", state: "open", deadlineAt: new Date(Date.now() + 3 * 86400_000), graceMinutes: 5, feeAmount: 1500, feeCurrency: "eur", ruleset: TEST_RULESET })
       .returning();
     const organizer = await makeUser({ name: "Orga" });
     await db().insert(eventRoles).values({ eventId: event.id, userId: organizer.id, role: "organizer" });

@@ -26,7 +26,7 @@ describe("a crew that submits by repository link", () => {
     const [event] = await db().insert(events).values({ slug: unique("repo-party"), title: "Repo Party", timeZone: "Europe/Berlin" }).returning();
     const [competition] = await db()
       .insert(competitions)
-      .values({ eventId: event.id, slug: "tiny", title: "Tiny Compo", state: "open", deadlineAt: new Date(Date.now() + 3 * 86400_000), feeAmount: 0, feeCurrency: "eur", ruleset: { ...DEMO_RULESET, simulation: { ...DEMO_RULESET.simulation, frames: 2 } } })
+      .values({ eventId: event.id, slug: "tiny", title: "Tiny Compo", state: "open", deadlineAt: new Date(Date.now() + 3 * 86400_000), feeAmount: 0, feeCurrency: "eur", ruleset: { ...DEMO_RULESET, simulation: { ...DEMO_RULESET.simulation, frames: 2 }, flashCheck: { ...DEMO_RULESET.flashCheck, viewing: "desk" } } })
       .returning();
     const entrant = await makeUser({ name: "Scan Line" });
     const [crew] = await db().insert(crews).values({ handle: unique("scan"), name: "Scanline Sisters", createdBy: entrant.id }).returning();

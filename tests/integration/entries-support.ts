@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { competitions, crewMembers, crews, entries, events } from "~/db/schema";
-import { DEMO_RULESET } from "~/rules/ruleset";
+import { TEST_RULESET } from "../support/rulesets";
 import { makeUser, sessionCookie, unique, type TestUser } from "../support/users";
 import { routeContext } from "../support/routes";
 
@@ -19,7 +19,7 @@ export async function makeCompetition(opts: { feeAmount?: number; deadlineAt?: D
       graceMinutes: opts.graceMinutes ?? 0,
       feeAmount: opts.feeAmount ?? 0,
       feeCurrency: "eur",
-      ruleset: opts.ruleset ?? DEMO_RULESET,
+      ruleset: opts.ruleset ?? TEST_RULESET,
     })
     .returning();
   return { event, competition };

@@ -10,7 +10,8 @@ import { lateNoteForJury } from "~/entries/late-exception.server";
 import type { UploadComparison } from "~/entries/compare";
 import { eligibleEntries } from "~/showcase/showcase.server";
 import { stopQueue } from "~/jobs/queue.server";
-import { DEMO_RULESET, rulesetSchema } from "~/rules/ruleset";
+import { rulesetSchema } from "~/rules/ruleset";
+import { TEST_RULESET } from "../support/rulesets";
 import * as entryPage from "~/routes/entries.$entryId";
 import * as rulesetRoute from "~/routes/e.$eventSlug.$competitionSlug.ruleset[.]json";
 import * as starterRoute from "~/routes/e.$eventSlug.$competitionSlug.starter[.]zip";
@@ -121,7 +122,7 @@ describe("sources by repository link and commit", () => {
   });
 
   it("takes no repository link where the ruleset allows bundles only", async () => {
-    const s = await makeEntrySetup({ ruleset: { ...DEMO_RULESET, repository: { ...DEMO_RULESET.repository, allowed: false } } });
+    const s = await makeEntrySetup({ ruleset: { ...TEST_RULESET, repository: { ...TEST_RULESET.repository, allowed: false } } });
     const st = await start(s, [{ kind: "layout", filename: "t.gds", size: layout.length }], { repository: { url: git.url("crews/tide.git"), commit } });
     expect(st.body.error?.fieldErrors?.repository?.[0]).toMatch(/source bundles only/);
   });
@@ -129,7 +130,7 @@ describe("sources by repository link and commit", () => {
 
 describe("the licence field", () => {
   it("is checked against the SPDX list, and can be required open", async () => {
-    const s = await makeEntrySetup({ ruleset: { ...DEMO_RULESET, licence: { required: true, openOnly: true } } });
+    const s = await makeEntrySetup({ ruleset: { ...TEST_RULESET, licence: { required: true, openOnly: true } } });
     const files = [{ kind: "bundle", filename: "b.zip", size: 10 }, { kind: "layout", filename: "t.gds", size: layout.length }];
     expect((await start(s, files)).body.error?.fieldErrors?.licence?.[0]).toMatch(/asks for the licence/);
     expect((await start(s, files, { licence: "Beerware-ish" })).body.error?.fieldErrors?.licence?.[0]).toMatch(/not an SPDX licence/);
@@ -235,7 +236,7 @@ describe("the public rules page's downloads", () => {
     const json = await callRoute(rulesetRoute.loader, request(`/e/${params.eventSlug}/${params.competitionSlug}/ruleset.json`), params);
     expect(json.status).toBe(200);
     const res = (await rulesetRoute.loader((await routeArgs(request("/x"), params)) as never)) as Response;
-    expect(rulesetSchema.parse(await res.json())).toEqual(DEMO_RULESET);
+    expect(rulesetSchema.parse(await res.json())).toEqual(TEST_RULESET);
     const zip = (await starterRoute.loader((await routeArgs(request("/x"), params)) as never)) as Response;
     const bytes = Buffer.from(await zip.arrayBuffer());
     expect(bytes.subarray(0, 4)).toEqual(Buffer.from([0x50, 0x4b, 0x03, 0x04])); // PKWARE APPNOTE 4.3.7: local file header

@@ -11,7 +11,7 @@ import { uploadForUploader } from "~/entries/upload-access.server";
 import { completeUpload, startUpload, sweepStaleUploads } from "~/entries/uploads.server";
 import { rulesetOf } from "~/entries/service.server";
 import { hashObject, headObject } from "~/storage/s3.server";
-import { DEMO_RULESET } from "~/rules/ruleset";
+import { TEST_RULESET } from "../support/rulesets";
 import * as startApi from "~/routes/api.entries.$entryId.uploads";
 import * as uploadApi from "~/routes/api.uploads.$uploadId";
 import * as fileApi from "~/routes/api.uploads.$uploadId.files.$fileId";
@@ -182,7 +182,7 @@ describe("a complete upload", () => {
   });
 
   it("refuses an oversized claim before any byte is sent, and an object larger than the limit after upload", async () => {
-    const ruleset = { ...DEMO_RULESET, uploadLimits: { ...DEMO_RULESET.uploadLimits, layoutBytes: 64 } };
+    const ruleset = { ...TEST_RULESET, uploadLimits: { ...TEST_RULESET.uploadLimits, layoutBytes: 64 } };
     const s = await makeEntrySetup({ ruleset });
     const before = await start(s, [
       { kind: "bundle", filename: "d.zip", size: ZIP.length },

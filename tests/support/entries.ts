@@ -1,7 +1,8 @@
 import { createHash } from "node:crypto";
 import { competitions, crewMembers, crews, entries, uploadFiles, uploads } from "~/db/schema";
 import { db } from "~/db/client.server";
-import { DEMO_RULESET, type Ruleset } from "~/rules/ruleset";
+import type { Ruleset } from "~/rules/ruleset";
+import { TEST_RULESET } from "./rulesets";
 import { putObject } from "~/storage/s3.server";
 import { unique } from "./users";
 
@@ -15,7 +16,7 @@ export async function makeCompetitionWithEntry(opts: {
 }) {
   const [competition] = await db()
     .insert(competitions)
-    .values({ eventId: opts.eventId, slug: unique("comp"), title: "Test Compo", state: opts.state ?? "open", ruleset: opts.ruleset ?? DEMO_RULESET, deadlineAt: opts.deadlineAt ?? new Date(Date.now() + 86_400_000) })
+    .values({ eventId: opts.eventId, slug: unique("comp"), title: "Test Compo", state: opts.state ?? "open", ruleset: opts.ruleset ?? TEST_RULESET, deadlineAt: opts.deadlineAt ?? new Date(Date.now() + 86_400_000) })
     .returning();
   const [crew] = await db().insert(crews).values({ handle: unique("crew"), name: "Test Crew" }).returning();
   await db().insert(crewMembers).values({ crewId: crew.id, userId: opts.captainId, role: "captain" });

@@ -42,6 +42,7 @@ export function CompetitionForm({
   const limits = rs.uploadLimits.getFieldset();
   const sim = rs.simulation.getFieldset();
   const flash = rs.flashCheck.getFieldset();
+  const audio = rs.audio.getFieldset();
   const licence = rs.licence.getFieldset();
   const repo = rs.repository.getFieldset();
   const pins = rs.pins.getFieldList();
@@ -209,6 +210,15 @@ export function CompetitionForm({
           </fieldset>
           <Check field={flash.enabled} label="Run the flash check" hint="WCAG 2.2 SC 2.3.1 general and red flash thresholds." />
           <Select field={flash.action} label="When an entry flashes" options={[{ value: "warn", label: "warn (show a warning)" }, { value: "block", label: "block (fail the check)" }]} />
+          <Select
+            field={flash.viewing}
+            label="Entries are watched"
+            options={[
+              { value: "hall", label: "in a hall (a flash anywhere on the screen counts)" },
+              { value: "desk", label: "at a desk (WCAG's 10° field area rule applies)" },
+            ]}
+          />
+          <Input field={audio.lowPassHz} label="Audio low-pass cut-off (Hz)" type="number" step="any" />
         </div>
       </section>
 
@@ -254,7 +264,8 @@ export function CompetitionForm({
           <Input field={limits.layoutMiB} label="Layout (MiB)" type="number" step="any" />
           <Input field={limits.videoMiB} label="Capture video (MiB)" type="number" step="any" />
           <Input field={limits.stillMiB} label="Still (MiB)" type="number" step="any" />
-          <Input field={sim.frames} label="Frames to simulate" type="number" />
+          <Input field={sim.frames} label="Frames to simulate (empty: the whole demo)" type="number" />
+          <Input field={sim.maxRunSeconds} label="Whole demo: at most (s of picture)" type="number" />
           <Input field={sim.resetCycles} label="Reset cycles" type="number" />
           <Input field={sim.compileSeconds} label="Build time limit (s)" type="number" />
           <Input field={sim.runSeconds} label="Run time limit (s)" type="number" />

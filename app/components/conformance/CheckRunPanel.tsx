@@ -1,5 +1,5 @@
 import type { EntryCheck } from "~/conformance/report-types";
-import { flashSummary } from "~/showcase/figures";
+import { flashSummary, loopSummary } from "~/showcase/figures";
 import { AudioCaution, PlayerGate } from "../PlayerGate";
 import { FindingsTable } from "./FindingsTable";
 import { LayoutViewer } from "./LayoutViewer";
@@ -40,6 +40,7 @@ export function CheckRunPanel({ check, offline, timingRules }: { check: EntryChe
   };
   const a = check.artifacts;
   const flash = flashSummary(run.figures);
+  const loop = loopSummary(run.figures);
   const settled = run.state === "done" || run.state === "error";
   return (
     <section aria-labelledby="check-title" className="card space-y-6" data-testid="check-run-panel" data-state={run.state}>
@@ -106,9 +107,15 @@ export function CheckRunPanel({ check, offline, timingRules }: { check: EntryChe
               poster={a["first-frame"]?.url}
               flashVerdict={flash.verdict}
               flashStatement={flash.statement}
+              loop={loop?.detected && loop.periodSeconds !== null ? { startSeconds: loop.loopStartSeconds ?? 0, periodSeconds: loop.periodSeconds } : null}
             />
           </div>
         </div>
+      )}
+      {loop?.statement && (
+        <p className="text-sm" data-testid="loop-statement">
+          <strong>Whole demo:</strong> {loop.statement}.
+        </p>
       )}
       {(a["first-frame"] || a["contact-sheet"]) && (
         <div className="grid gap-4 sm:grid-cols-2">
