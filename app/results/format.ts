@@ -1,4 +1,5 @@
 import { toCsv } from "~/security/csv";
+import { hashSchemeLabel, type HashScheme } from "./canonical";
 import type { ResultsPayload, StandingRow } from "./shapes";
 
 /** Figures as the results pages, the CSV and the text sheet print them. */
@@ -25,7 +26,7 @@ export function resultsCsv(p: ResultsPayload): string {
 }
 
 /** A plain-text results sheet, monospaced columns, for notice boards and mailing lists. */
-export function resultsText(p: ResultsPayload, sha256: string, publishedAt: string): string {
+export function resultsText(p: ResultsPayload, hash: { sha256: string; scheme: HashScheme }, publishedAt: string): string {
   const rows = p.standings.map((r) => [placeLabel(r), r.title, r.crew, fmt(r.mixed), fmt(r.jury.score), fmt(r.audience.score)]);
   const head = ["Place", "Entry", "Crew", "Mixed", "Jury", "Audience"];
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
@@ -41,7 +42,7 @@ export function resultsText(p: ResultsPayload, sha256: string, publishedAt: stri
     line(widths.map((w) => "-".repeat(w))),
     ...rows.map(line),
     "",
-    `SHA-256 of the canonical results JSON: ${sha256}`,
+    `${hashSchemeLabel(hash.scheme)}: ${hash.sha256}`,
     "Prizes and any money follow local law; Gatecrash gives no legal advice.",
     "",
   ]

@@ -4,5 +4,5 @@ import type { Route } from "./+types/results.txt";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { published: p } = await requirePublished(request, params);
-  return new Response(resultsText(p.payload, p.sha256, p.publishedAt), { headers: { "Content-Type": "text/plain; charset=utf-8", "X-Results-SHA256": p.sha256 } });
+  return new Response(resultsText(p.payload, { sha256: p.sha256, scheme: p.hashScheme }, p.publishedAt), { headers: { "Content-Type": "text/plain; charset=utf-8", "X-Results-SHA256": p.sha256 } });
 }

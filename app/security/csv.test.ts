@@ -21,4 +21,9 @@ describe("CSV exports", () => {
     // Numbers stay numbers, negative ones included.
     expect(toCsv(["n"], [[-3]])).toBe("n\r\n-3\r\n");
   });
+
+  it("defuses a formula whose cell goes on after a line break (papaparse's own default pattern misses it)", () => {
+    const cells = parse(toCsv(["t"], [["=1+1\nsecond line"], ["@cmd\r\nrest"]])).slice(1).map((r: string[]) => r[0]);
+    expect(cells).toEqual(["'=1+1\nsecond line", "'@cmd\r\nrest"]);
+  });
 });

@@ -204,7 +204,8 @@ describe("previewing and publishing results", () => {
     expect(lines).toHaveLength(4);
     expect(lines[1]).toContain(v1.payload.standings[0].entryId);
     const txt = await text(resultsTxt.loader, f);
-    expect(txt.body).toContain(v1.sha256);
+    // the sheet names how the hash was made, so a reader can recompute it (RFC 8785, JSON Canonicalization Scheme)
+    expect(txt.body).toContain(`SHA-256 of the RFC 8785 (JCS) canonical JSON: ${v1.sha256}`);
     expect(txt.body).toContain("follow local law");
     for (const e of f.entries) expect(txt.body).toContain(e.title);
 
