@@ -8,7 +8,7 @@ import { spawnSync } from "node:child_process";
 import { existsSync, mkdirSync, readFileSync, rmSync, statSync, writeFileSync, readdirSync } from "node:fs";
 import { join } from "node:path";
 import { ensureDebianPackages, RUNTIME_PACKAGES } from "./lib/system-deps";
-import { clusterFor, createDatabase, initCluster, isRunning, recordedPort, startCluster, stopCluster } from "./lib/postgres";
+import { clusterFor, clusterHome, createDatabase, initCluster, isRunning, recordedPort, startCluster, stopCluster } from "./lib/postgres";
 import { applyMigrations } from "./lib/migrate";
 import { pickPort } from "./lib/ports";
 import { localSecrets } from "./lib/secrets";
@@ -58,7 +58,9 @@ async function main() {
   mkdirSync(STATE, { recursive: true });
   ensureDebianPackages(RUNTIME_PACKAGES);
 
-  const pgDir = join(STATE, "pg");
+  // PostgreSQL runs as the postgres user: a checkout it cannot enter keeps its cluster under /var/lib/gatecrash
+  const { dataDir: pgDir, movedBecause } = clusterHome(join(STATE, "pg"));
+  if (movedBecause) console.log(`PostgreSQL keeps its data in ${pgDir}, because ${movedBecause}; to start over, delete that folder as well as .gatecrash/.`);
   const pgPort = recordedPort(pgDir) ?? (await pickPort(Number(process.env.GATECRASH_PG_PORT ?? 54329)));
   const cluster = clusterFor(pgDir, pgPort);
   initCluster(cluster);
