@@ -39,7 +39,8 @@ export function blockedAncestor(dir: string): string | null {
   }
   for (const d of chain) {
     if (!existsSync(d)) return null;
-    if (spawnSync("runuser", ["-u", "postgres", "--", "test", "-x", d]).status !== 0) return d;
+    const [cmd, ...args] = asPostgres("/usr/bin/test", ["-x", d]);
+    if (spawnSync(cmd, args).status !== 0) return d;
   }
   return null;
 }
