@@ -98,7 +98,7 @@ async function main() {
     await fakes.stop();
     stopCluster(cluster);
     rmSync(LOCK, { force: true });
-    console.log("Stopped. Data is kept in .gatecrash/ for the next start.");
+    console.log(`Stopped. Data is kept in .gatecrash/${movedBecause ? ` and ${pgDir}` : ""} for the next start.`);
     process.exit(0);
   };
   process.on("SIGINT", () => void shutdown());
