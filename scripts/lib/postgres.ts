@@ -26,7 +26,7 @@ function run(argv: string[], what: string): void {
 }
 
 /**
- * The folder closest to the root, among `dir` and its ancestors, that the `postgres` user cannot enter; null when
+ * The folder closest to the root, among the folders above `dir`, that the `postgres` user cannot enter; null when
  * it can reach `dir`'s parent (or when we are not root, so the server runs as ourselves). A project cloned into a
  * 0700 folder (root's home on Debian, a `mktemp -d`) is out of the server's reach.
  */
