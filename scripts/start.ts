@@ -6,12 +6,13 @@
  */
 import { spawnSync } from "node:child_process";
 import { existsSync, mkdirSync, readFileSync, rmSync, statSync, writeFileSync, readdirSync } from "node:fs";
-import { dirname, join } from "node:path";
+import { join } from "node:path";
 import { ensureDebianPackages, RUNTIME_PACKAGES } from "./lib/system-deps";
-import { clusterFor, clusterHome, createDatabase, initCluster, isRunning, recordedPort, startCluster, stopCluster } from "./lib/postgres";
+import { clusterFor, createDatabase, initCluster, isRunning, recordedPort, startCluster, stopCluster } from "./lib/postgres";
 import { applyMigrations } from "./lib/migrate";
 import { pickPort } from "./lib/ports";
 import { localSecrets } from "./lib/secrets";
+import { sharedStateHome } from "./lib/state-home";
 import { appEnv, startStack } from "./lib/stack";
 
 const STATE = ".gatecrash";
@@ -58,9 +59,10 @@ async function main() {
   mkdirSync(STATE, { recursive: true });
   ensureDebianPackages(RUNTIME_PACKAGES);
 
-  // PostgreSQL runs as the postgres user: a checkout it cannot enter keeps its cluster under /var/lib/gatecrash
-  const { dataDir: pgDir, movedBecause } = clusterHome(join(STATE, "pg"));
-  if (movedBecause) console.log(`PostgreSQL's data and the worker's scratch folder are in ${dirname(pgDir)}, because ${movedBecause}; to start over, delete that folder as well as .gatecrash/.`);
+  // PostgreSQL and the sandbox run as other users: a checkout they cannot enter keeps that state under /var/lib/gatecrash
+  const shared = sharedStateHome(STATE);
+  if (shared.movedBecause) console.log(`PostgreSQL's data and the worker's scratch folder are in ${shared.dir}, because ${shared.movedBecause}; to start over, delete that folder as well as .gatecrash/.`);
+  const pgDir = join(shared.dir, "pg");
   const pgPort = recordedPort(pgDir) ?? (await pickPort(Number(process.env.GATECRASH_PG_PORT ?? 54329)));
   const cluster = clusterFor(pgDir, pgPort);
   initCluster(cluster);
@@ -79,8 +81,7 @@ async function main() {
   // Generated once into .gatecrash/secrets.json and kept: the web server runs as in production, which refuses
   // the repository's development defaults.
   const env: NodeJS.ProcessEnv = { ...appEnv(ports, databaseUrl, STATE), ...localSecrets(join(STATE, "secrets.json")) };
-  // the sandbox's tools run as another user too: the worker's scratch folder goes beside the moved cluster
-  if (movedBecause) env.WORKDIR = join(dirname(pgDir), "work");
+  if (shared.movedBecause) env.WORKDIR = join(shared.dir, "work");
   writeFileSync(LOCK, JSON.stringify({ pid: process.pid, web: env.APP_URL }));
 
   buildIfStale();
@@ -100,7 +101,7 @@ async function main() {
     await fakes.stop();
     stopCluster(cluster);
     rmSync(LOCK, { force: true });
-    console.log(`Stopped. Data is kept in .gatecrash/${movedBecause ? ` and ${dirname(pgDir)}` : ""} for the next start.`);
+    console.log(`Stopped. Data is kept in .gatecrash/${shared.movedBecause ? ` and ${shared.dir}` : ""} for the next start.`);
     process.exit(0);
   };
   process.on("SIGINT", () => void shutdown());

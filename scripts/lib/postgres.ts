@@ -1,7 +1,6 @@
 import { execFileSync, spawnSync } from "node:child_process";
-import { createHash } from "node:crypto";
 import { chmodSync, chownSync, existsSync, mkdirSync, readFileSync } from "node:fs";
-import { dirname, join, resolve } from "node:path";
+import { join, resolve } from "node:path";
 import { postgresBinDir } from "./system-deps";
 
 /**
@@ -15,7 +14,7 @@ export interface Cluster {
   url(database: string): string;
 }
 
-function asPostgres(bin: string, args: string[]): string[] {
+export function asPostgres(bin: string, args: string[]): string[] {
   return process.getuid?.() === 0 ? ["runuser", "-u", "postgres", "--", bin, ...args] : [bin, ...args];
 }
 
@@ -23,41 +22,6 @@ function run(argv: string[], what: string): void {
   const [cmd, ...rest] = argv;
   const res = spawnSync(cmd, rest, { encoding: "utf8" });
   if (res.status !== 0) throw new Error(`${what} failed:\n${res.stdout}\n${res.stderr}`);
-}
-
-/**
- * The folder closest to the root, among the folders above `dir`, that the `postgres` user cannot enter; null when
- * it can reach `dir`'s parent (or when we are not root, so the server runs as ourselves). A project cloned into a
- * 0700 folder (root's home on Debian, a `mktemp -d`) is out of the server's reach.
- */
-export function blockedAncestor(dir: string): string | null {
-  if (process.getuid?.() !== 0) return null;
-  const chain: string[] = [];
-  for (let d = dirname(resolve(dir)); ; d = dirname(d)) {
-    chain.unshift(d);
-    if (d === dirname(d)) break;
-  }
-  for (const d of chain) {
-    if (!existsSync(d)) return null;
-    const [cmd, ...args] = asPostgres("/usr/bin/test", ["-x", d]);
-    if (spawnSync(cmd, args).status !== 0) return d;
-  }
-  return null;
-}
-
-/**
- * Where the cluster for `preferred` lives: there when the server can reach it, else in a folder of its own under
- * `fallbackRoot`, named after the preferred path so each checkout keeps its own data.
- */
-export function clusterHome(preferred: string, fallbackRoot = "/var/lib/gatecrash"): { dataDir: string; movedBecause: string | null } {
-  const blocked = blockedAncestor(preferred);
-  if (!blocked) return { dataDir: resolve(preferred), movedBecause: null };
-  const id = createHash("sha256").update(resolve(preferred)).digest("hex").slice(0, 16);
-  const dataDir = join(fallbackRoot, id, "pg");
-  mkdirSync(dirname(dataDir), { recursive: true, mode: 0o755 });
-  chmodSync(fallbackRoot, 0o755);
-  chmodSync(dirname(dataDir), 0o755);
-  return { dataDir, movedBecause: `the postgres user cannot enter ${blocked}` };
 }
 
 export function clusterFor(dataDir: string, port: number): Cluster {

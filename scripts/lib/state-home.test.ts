@@ -2,7 +2,8 @@ import { chmodSync, existsSync, mkdirSync, mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterEach, describe, expect, it } from "vitest";
-import { blockedAncestor, clusterFor, clusterHome, initCluster } from "./postgres";
+import { clusterFor, initCluster } from "./postgres";
+import { blockedAncestor, sharedStateHome } from "./state-home";
 
 const made: string[] = [];
 afterEach(() => { for (const d of made.splice(0)) rmSync(d, { recursive: true, force: true }); });
@@ -15,28 +16,28 @@ describe("where npm start keeps PostgreSQL's data", () => {
     const closed = mkdtempSync(join(tmpdir(), "gc-closed-")); // mkdtemp makes it 0700
     const fallback = mkdtempSync(join(tmpdir(), "gc-clusters-"));
     made.push(closed, fallback);
-    const preferred = join(closed, "checkout", ".gatecrash", "pg");
+    const preferred = join(closed, "checkout", ".gatecrash");
     mkdirSync(join(closed, "checkout", ".gatecrash"), { recursive: true });
 
-    expect(blockedAncestor(preferred)).toBe(closed);
-    const home = clusterHome(preferred, join(fallback, "root"));
+    expect(blockedAncestor(join(preferred, "pg"))).toBe(closed);
+    const home = sharedStateHome(preferred, join(fallback, "root"));
     expect(home.movedBecause).toBe(`the postgres user cannot enter ${closed}`);
-    expect(home.dataDir.startsWith(join(fallback, "root"))).toBe(true);
+    expect(home.dir.startsWith(join(fallback, "root"))).toBe(true);
     // the same checkout always lands in the same place, so its data is there at the next start
-    expect(clusterHome(preferred, join(fallback, "root")).dataDir).toBe(home.dataDir);
+    expect(sharedStateHome(preferred, join(fallback, "root")).dir).toBe(home.dir);
 
     chmodSync(fallback, 0o755);
-    initCluster(clusterFor(home.dataDir, 5432));
-    expect(existsSync(join(home.dataDir, "PG_VERSION"))).toBe(true);
+    initCluster(clusterFor(join(home.dir, "pg"), 5432));
+    expect(existsSync(join(home.dir, "pg", "PG_VERSION"))).toBe(true);
   }, 60_000);
 
   it.runIf(asRoot)("keeps the cluster in the checkout when the postgres user can reach it", () => {
     const open = mkdtempSync(join(tmpdir(), "gc-open-"));
     made.push(open);
     chmodSync(open, 0o755);
-    const preferred = join(open, ".gatecrash", "pg");
-    expect(blockedAncestor(preferred)).toBeNull();
-    expect(clusterHome(preferred, join(open, "unused"))).toEqual({ dataDir: preferred, movedBecause: null });
+    const preferred = join(open, ".gatecrash");
+    expect(blockedAncestor(join(preferred, "pg"))).toBeNull();
+    expect(sharedStateHome(preferred, join(open, "unused"))).toEqual({ dir: preferred, movedBecause: null });
     expect(existsSync(join(open, "unused"))).toBe(false);
   });
 });
