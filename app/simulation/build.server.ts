@@ -239,7 +239,9 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
     const keyOf = (flavour: string) => modelKey(objDir, inputs, `${flavour} ${MODEL_CXX_FLAGS} ${RUNTIME_CXX_FLAGS}`);
     const binary = join(objDir, "Vtop");
 
+    // both keys before anything is built: the key hashes objDir, which a plain build fills with its objects
     const plainKey = keyOf("plain");
+    const profiledKey = keyOf("profile-guided");
     let plain = useCache ? cachedModel(plainKey, req.modelCacheDir) : null;
     if (plain) {
       placeModel(plain, binary);
@@ -254,7 +256,6 @@ export async function simulateDesign(req: SimulationRequest): Promise<Simulation
     }
     const wantProfile = req.profileGuided === true || ((req.profileGuided ?? "auto") === "auto" && plain !== null && profilePays(ruleset, frames, plain.buildMs));
     if (plain && wantProfile) {
-      const profiledKey = keyOf("profile-guided");
       const cached = useCache ? cachedModel(profiledKey, req.modelCacheDir) : null;
       if (cached) {
         placeModel(cached, binary);

@@ -81,6 +81,18 @@ describe("the model cache", () => {
     expect(forced.profileGuided).toBe(true);
     expect((await simulate(source, { profileGuided: true })).modelCached).toBe(true);
   }, 240_000);
+
+  it("finds the profile-guided model again after a run that built both models", async () => {
+    // the first run of a design builds the plain model and then the profile-guided one; the second must find the
+    // latter, although the first run's folder held the plain build's objects when it was stored
+    const source = design(4);
+    const first = await simulate(source, { profileGuided: true });
+    expect(first.profileGuided).toBe(true);
+    expect(first.modelCached).toBe(false);
+    const again = await simulate(source, { profileGuided: true });
+    expect(again.profileGuided).toBe(true);
+    expect(again.modelCached).toBe(true);
+  }, 240_000);
 });
 
 describe("the precompiled runtime header", () => {

@@ -115,8 +115,25 @@ async function benchDesign(label: string, source: string): Promise<{ label: stri
   }
 }
 
-/** Resident memory of this process and every process under it (harness, ffmpeg, the sandbox around them), in bytes. */
-function treeRss(): number {
+/**
+ * Memory of this process and every process under it (harness, ffmpeg, the sandbox around them), in bytes: the sum of
+ * RSS, which counts pages the processes share (libc, the sandbox's binaries) once per process, and of PSS
+ * (/proc/PID/smaps_rollup), which splits each shared page among its sharers, so that it adds up to what the tree uses.
+ */
+const gone = (e: unknown) => (e as NodeJS.ErrnoException).code === "ENOENT" || (e as NodeJS.ErrnoException).code === "ESRCH";
+
+/** Proportional set size of one process in bytes; null when it has ended. */
+function processPss(pid: number): number | null {
+  try {
+    const kb = /^Pss:\s+(\d+) kB/m.exec(readFileSync(`/proc/${pid}/smaps_rollup`, "utf8"));
+    return kb ? Number(kb[1]) * 1024 : null;
+  } catch (e) {
+    if (!gone(e)) throw e;
+    return null;
+  }
+}
+
+function treeMemory(): { rss: number; pss: number } {
   const children = new Map<number, number[]>();
   const rss = new Map<number, number>();
   for (const name of readdirSync("/proc")) {
@@ -131,22 +148,32 @@ function treeRss(): number {
       children.set(ppid, [...(children.get(ppid) ?? []), Number(name)]);
     } catch (e) {
       // the process ended while we looked
-      if ((e as NodeJS.ErrnoException).code !== "ENOENT" && (e as NodeJS.ErrnoException).code !== "ESRCH") throw e;
+      if (!gone(e)) throw e;
     }
   }
-  let total = 0;
-  const walk = (pid: number) => { total += rss.get(pid) ?? 0; for (const c of children.get(pid) ?? []) walk(c); };
+  const total = { rss: 0, pss: 0 };
+  // PSS is read for the tree's processes only: smaps_rollup walks a process's page tables
+  const walk = (pid: number) => {
+    const own = rss.get(pid);
+    if (own !== undefined) {
+      total.rss += own;
+      total.pss += processPss(pid) ?? own;
+    }
+    for (const c of children.get(pid) ?? []) walk(c);
+  };
   walk(process.pid);
   return total;
 }
 
-/** Runs `fn` while sampling the process tree's memory every 50 ms; returns its result and the peak. */
-async function withPeakMemory<T>(fn: () => Promise<T>): Promise<{ value: T; peakBytes: number }> {
-  let peak = treeRss();
-  const timer = setInterval(() => { peak = Math.max(peak, treeRss()); }, 50);
+/** Runs `fn` while sampling the process tree's memory every 50 ms; returns its result and the peaks (RSS sum, PSS sum). */
+async function withPeakMemory<T>(fn: () => Promise<T>): Promise<{ value: T; peakBytes: number; peakPssBytes: number }> {
+  let peak = treeMemory();
+  const sample = () => { const now = treeMemory(); peak = { rss: Math.max(peak.rss, now.rss), pss: Math.max(peak.pss, now.pss) }; };
+  const timer = setInterval(sample, 50);
   try {
     const value = await fn();
-    return { value, peakBytes: Math.max(peak, treeRss()) };
+    sample();
+    return { value, peakBytes: peak.rss, peakPssBytes: peak.pss };
   } finally {
     clearInterval(timer);
   }
@@ -167,15 +194,16 @@ async function benchWholeDemo(): Promise<void> {
   try {
     mkdirSync(join(root, "src"));
     writeFileSync(join(root, "src", "entry.v"), loopingEntryDesign(LOOP_FRAMES));
+    const base = process.memoryUsage().rss;
     const capture = async (name: string, frames: number | null) => {
       const t0 = Date.now();
-      const { value, peakBytes } = await withPeakMemory(() => runReferenceCapture({
+      const { value, peakBytes, peakPssBytes } = await withPeakMemory(() => runReferenceCapture({
         sourceDir: join(root, "src"), verilogFiles: ["entry.v"], ruleset: DEMO_RULESET, frames, workDir: join(root, name), encode: true,
       }));
       const wall = Date.now() - t0;
       if (!value.speed) throw new Error(`bench design failed: ${JSON.stringify(value.findings[0])}`);
       rmSync(join(root, name), { recursive: true, force: true });
-      return { capture: value, afterBuildMs: wall - value.speed.buildMs, buildMs: value.speed.buildMs, peakBytes };
+      return { capture: value, afterBuildMs: wall - value.speed.buildMs, buildMs: value.speed.buildMs, peakBytes, peakPssBytes };
     };
     console.log(`\nwhole-demo capture: the entry-shaped design looping every ${LOOP_FRAMES} frames; WebM + MP4 encoded; best of ${WHOLE_REPEATS}`);
     // a first run builds the model (and its profile) into the model cache; the timed runs reuse it, the build is reported apart
@@ -183,34 +211,41 @@ async function benchWholeDemo(): Promise<void> {
     console.log(`  build (reported apart): ${first.buildMs} ms${first.capture.speed!.profileGuided ? ", profile-guided" : ""}; ${first.capture.loop!.statement}`);
     let best: Awaited<ReturnType<typeof capture>> | null = null;
     // the warm run's peak holds the compiler; the timed runs take the model from the cache, as a repeat upload does
-    let wholePeak = 0;
+    let wholePeak = 0, wholePss = 0;
     for (let i = 0; i < WHOLE_REPEATS; i++) {
       const run = await capture(`whole${i}`, null);
       wholePeak = Math.max(wholePeak, run.peakBytes);
+      wholePss = Math.max(wholePss, run.peakPssBytes);
       if (!best || run.afterBuildMs < best.afterBuildMs) best = run;
     }
     let plain: Awaited<ReturnType<typeof capture>> | null = null;
-    let plainPeak = 0;
+    let plainPeak = 0, plainPss = 0;
     for (let i = 0; i < WHOLE_REPEATS; i++) {
       const run = await capture(`second${i}`, FRAMES);
       plainPeak = Math.max(plainPeak, run.peakBytes);
+      plainPss = Math.max(plainPss, run.peakPssBytes);
       if (!plain || run.afterBuildMs < plain.afterBuildMs) plain = run;
     }
     const peak = Math.max(wholePeak, plainPeak);
+    const peakPss = Math.max(wholePss, plainPss);
     const demoSeconds = best!.capture.loop!.periodSeconds ?? best!.capture.loop!.capturedSeconds;
     const ratio = best!.afterBuildMs / 1000 / demoSeconds;
     const plainSeconds = FRAMES / (REAL_TIME_HZ / (800 * 525));
     const plainRatio = plain!.afterBuildMs / 1000 / plainSeconds;
-    console.log(`  whole demo (${demoSeconds.toFixed(1)} s loop + 1 s wrap-around for the flash check): ${(best!.afterBuildMs / 1000).toFixed(1)} s wall`);
+    // a timed run that built its model again holds the compiler's memory in its peak
+    console.log(`  whole demo (${demoSeconds.toFixed(1)} s loop + 1 s wrap-around for the flash check): ${(best!.afterBuildMs / 1000).toFixed(1)} s wall; model ${best!.capture.speed!.modelCached ? "from the cache" : `built again (${best!.buildMs} ms)`}`);
     console.log(`  ratio against the demo's duration: ${ratio.toFixed(2)}x   (goal <= 1.0x: ${ratio <= 1 ? "met" : "not met"})`);
     // the model loop runs on one core whatever else overlaps it: the whole capture cannot take less wall time
     const sim = best!.capture.speed!;
     console.log(`  of that, the model loop inside the harness: ${sim.seconds.toFixed(1)} s wall, ${sim.cpuSeconds.toFixed(1)} s CPU = ${(sim.seconds / demoSeconds).toFixed(2)}x the demo's duration (${(sim.cyclesPerSecond / REAL_TIME_HZ).toFixed(2)}x real time), the floor for one core`);
     console.log(`  plain 1 s capture (${FRAMES} frames, encoded): ${(plain!.afterBuildMs / 1000).toFixed(2)} s wall = ${plainRatio.toFixed(2)}x its duration; whole demo / 1 s capture: ${(best!.afterBuildMs / plain!.afterBuildMs).toFixed(1)}x the wall time for ${(demoSeconds / plainSeconds).toFixed(0)}x the picture`);
-    const base = process.memoryUsage().rss;
-    console.log(`  peak memory (this process and its children, sampled every 50 ms): ${(peak / 1e6).toFixed(0)} MB, of which ${(base / 1e6).toFixed(0)} MB is this Node process before any capture (goal < 300 MB for 180 s: ${peak < 300e6 ? "met" : "not met"}; above the process: ${((peak - base) / 1e6).toFixed(0)} MB)`);
+    const mb = (n: number) => `${(n / 1e6).toFixed(0)} MB`;
+    // PSS is the figure the goal is judged by: the RSS sum counts the pages the processes share once per process
+    console.log(`  peak memory (this process and its children, sampled every 50 ms): ${mb(peakPss)} PSS, ${mb(peak)} summed RSS (goal < 300 MB for 180 s: ${peakPss < 300e6 ? "met" : "not met"})`);
+    // the Node process's own growth over the runs: memory the captures left behind in it
+    console.log(`  this Node process: ${mb(base)} RSS before the first capture, ${mb(process.memoryUsage().rss)} after the last`);
     // frames stream through: a capture 60 times longer should need no more memory than the 1 s one
-    console.log(`  peak by length: whole ${demoSeconds.toFixed(0)} s demo ${(wholePeak / 1e6).toFixed(0)} MB, 1 s capture ${(plainPeak / 1e6).toFixed(0)} MB (${((wholePeak - plainPeak) / 1e6).toFixed(0)} MB more for ${(demoSeconds / plainSeconds).toFixed(0)}x the picture)`);
+    console.log(`  peak by length (PSS): whole ${demoSeconds.toFixed(0)} s demo ${mb(wholePss)}, 1 s capture ${mb(plainPss)} (${mb(wholePss - plainPss)} more for ${(demoSeconds / plainSeconds).toFixed(0)}x the picture)`);
   } finally {
     rmSync(root, { recursive: true, force: true });
   }
